@@ -1,0 +1,26 @@
+//! Saltwise chemistry core: aqueous acid–base equilibria from a recipe weighed by mass.
+//!
+//! A [`Recipe`] of library [`Ingredient`]s resolves into a [`Batch`] (masses, water, molal
+//! totals); [`solver::solve`] finds the pH from the charge balance with activities and
+//! temperature; [`curve`] sweeps doses and finds the dose to a target; [`explain`] says what each
+//! released ion does to pH; [`project`] is the file a workbench saves. Pure and deterministic:
+//! the only I/O is reading and atomically writing project files.
+
+#![deny(missing_docs)]
+
+pub mod curve;
+pub mod error;
+pub mod explain;
+pub mod formula;
+pub mod hazard;
+pub mod library;
+pub mod project;
+pub mod recipe;
+pub mod report;
+pub mod solver;
+
+pub use error::{DoseError, FormulaError, LibraryError, ProjectError, RecipeError};
+pub use library::{Hazard, Ingredient, Library};
+pub use recipe::{Amount, Batch, Recipe, RecipeLine, Unit};
+pub use report::{Report, evaluate};
+pub use solver::{ActivityModel, Conditions, Constants, Solution, SolveStatus};
