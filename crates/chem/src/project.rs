@@ -99,7 +99,9 @@ impl Project {
         };
         Self {
             name: "Meadowbrook mild cleanser base (demo)".into(),
-            notes: "Invented demo recipe: lactate buffer, benzoate preservative, water q.s. to 1 kg.".into(),
+            notes:
+                "Invented demo recipe: lactate buffer, benzoate preservative, water q.s. to 1 kg."
+                    .into(),
             recipe: Recipe {
                 lines: vec![
                     line("lactic_acid_88", 0.8, Unit::Percent),
@@ -109,7 +111,12 @@ impl Project {
                 ],
                 qs_to_g: Some(1000.0),
             },
-            settings: Settings { target_ph: Some(5.0), adjuster: "sodium_hydroxide_50".into(), dose_max_g: 20.0, ..Settings::default() },
+            settings: Settings {
+                target_ph: Some(5.0),
+                adjuster: "sodium_hydroxide_50".into(),
+                dose_max_g: 20.0,
+                ..Settings::default()
+            },
             ..Self::default()
         }
     }
@@ -129,7 +136,11 @@ impl Project {
             message: e.code.to_string(),
         })?;
         if project.format_version == 0 || project.format_version > FORMAT_VERSION {
-            return Err(ProjectError::Version { path: origin.to_owned(), found: project.format_version, supported: FORMAT_VERSION });
+            return Err(ProjectError::Version {
+                path: origin.to_owned(),
+                found: project.format_version,
+                supported: FORMAT_VERSION,
+            });
         }
         project.validate(origin)?;
         Ok(project)
@@ -137,7 +148,10 @@ impl Project {
 
     /// Checks amounts and settings for values no recipe can have.
     pub fn validate(&self, origin: &str) -> Result<(), ProjectError> {
-        let bad = |message: String| ProjectError::Invalid { path: origin.to_owned(), message };
+        let bad = |message: String| ProjectError::Invalid {
+            path: origin.to_owned(),
+            message,
+        };
         for (i, line) in self.recipe.lines.iter().enumerate() {
             let v = line.amount.value;
             if !v.is_finite() || v < 0.0 {
@@ -148,19 +162,29 @@ impl Project {
                 )));
             }
         }
-        if let Some(qs) = self.recipe.qs_to_g {
-            if !qs.is_finite() || qs <= 0.0 {
-                return Err(bad(format!("q.s. batch size {qs} g is not allowed; it must be above 0")));
-            }
+        if let Some(qs) = self.recipe.qs_to_g
+            && (!qs.is_finite() || qs <= 0.0)
+        {
+            return Err(bad(format!(
+                "q.s. batch size {qs} g is not allowed; it must be above 0"
+            )));
         }
         let s = &self.settings;
         if !s.temp_c.is_finite() || !(0.0..=95.0).contains(&s.temp_c) {
-            return Err(bad(format!("temperature {} °C is outside 0–95 °C", s.temp_c)));
+            return Err(bad(format!(
+                "temperature {} °C is outside 0–95 °C",
+                s.temp_c
+            )));
         }
         if !s.dose_max_g.is_finite() || s.dose_max_g <= 0.0 {
-            return Err(bad(format!("largest dose {} g must be above 0", s.dose_max_g)));
+            return Err(bad(format!(
+                "largest dose {} g must be above 0",
+                s.dose_max_g
+            )));
         }
-        if s.target_ph.is_some_and(|t| !t.is_finite() || !(-1.0..=15.0).contains(&t)) {
+        if s.target_ph
+            .is_some_and(|t| !t.is_finite() || !(-1.0..=15.0).contains(&t))
+        {
             return Err(bad("target pH must be between −1 and 15".into()));
         }
         Ok(())
@@ -169,14 +193,23 @@ impl Project {
     /// Reads a project file, refusing files that are too large, not text or malformed.
     pub fn load(path: &Path) -> Result<Self, ProjectError> {
         let name = path.display().to_string();
-        let io = |source| ProjectError::Io { path: name.clone(), source };
+        let io = |source| ProjectError::Io {
+            path: name.clone(),
+            source,
+        };
         let size_bytes = fs::metadata(path).map_err(io)?.len();
         if size_bytes > MAX_FILE_BYTES {
-            return Err(ProjectError::TooLarge { path: name, size_bytes, limit_bytes: MAX_FILE_BYTES });
+            return Err(ProjectError::TooLarge {
+                path: name,
+                size_bytes,
+                limit_bytes: MAX_FILE_BYTES,
+            });
         }
         let bytes = fs::read(path).map_err(io)?;
-        let text = String::from_utf8(bytes)
-            .map_err(|e| ProjectError::NotText { path: name.clone(), offset: e.utf8_error().valid_up_to() })?;
+        let text = String::from_utf8(bytes).map_err(|e| ProjectError::NotText {
+            path: name.clone(),
+            offset: e.utf8_error().valid_up_to(),
+        })?;
         Self::from_ron(&text, &name)
     }
 
@@ -184,8 +217,12 @@ impl Project {
     /// the previous file is kept beside it as `NAME.bak`.
     pub fn save(&self, path: &Path) -> Result<(), ProjectError> {
         let name = path.display().to_string();
-        let text = self.to_ron().map_err(|e| ProjectError::Invalid { path: name.clone(), message: e.to_string() })?;
-        write_atomic(path, text.as_bytes(), true).map_err(|source| ProjectError::Io { path: name, source })
+        let text = self.to_ron().map_err(|e| ProjectError::Invalid {
+            path: name.clone(),
+            message: e.to_string(),
+        })?;
+        write_atomic(path, text.as_bytes(), true)
+            .map_err(|source| ProjectError::Io { path: name, source })
     }
 }
 
@@ -213,7 +250,10 @@ pub fn write_atomic_with(
         Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
         _ => PathBuf::from("."),
     };
-    let file_name = path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_else(|| "project".into());
+    let file_name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "project".into());
     let tmp = dir.join(format!(".{file_name}.saving-{}", std::process::id()));
     let result = (|| {
         let mut f = fs::File::create(&tmp)?;
@@ -265,7 +305,9 @@ fn check_nesting(text: &str, origin: &str) -> Result<(), ProjectError> {
                         path: origin.to_owned(),
                         line,
                         column,
-                        message: format!("brackets nest deeper than {MAX_NESTING} levels; a project is never this deep"),
+                        message: format!(
+                            "brackets nest deeper than {MAX_NESTING} levels; a project is never this deep"
+                        ),
                     });
                 }
             }

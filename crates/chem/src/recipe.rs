@@ -214,7 +214,7 @@ impl Totals {
 
     /// Molal totals for the solver; `None` when there is no water.
     pub fn composition(&self, library: &Library) -> Option<Composition> {
-        if !(self.water_kg > 0.0) {
+        if self.water_kg.partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
             return None;
         }
         let w = self.water_kg;
@@ -332,18 +332,18 @@ impl Recipe {
             }
             resolved.push((entry, grams, line));
         }
-        if let Some(qs) = self.qs_to_g {
-            if !qs.is_finite() || qs <= 0.0 {
-                return Err(RecipeError::BadAmount {
-                    id: "q.s. batch size".into(),
-                    value: qs,
-                    problem: if qs.is_finite() {
-                        "not above 0"
-                    } else {
-                        "not a finite number"
-                    },
-                });
-            }
+        if let Some(qs) = self.qs_to_g
+            && (!qs.is_finite() || qs <= 0.0)
+        {
+            return Err(RecipeError::BadAmount {
+                id: "q.s. batch size".into(),
+                value: qs,
+                problem: if qs.is_finite() {
+                    "not above 0"
+                } else {
+                    "not a finite number"
+                },
+            });
         }
         let total_g = match self.qs_to_g {
             Some(qs) => qs,
@@ -399,7 +399,7 @@ impl Recipe {
                 totals.water_kg += qs_water_g * 1e-3;
             }
         }
-        if !(totals.water_kg > 0.0) {
+        if totals.water_kg.partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
             return Err(RecipeError::NoWater);
         }
         Ok(Batch {
