@@ -1,1 +1,5 @@
-fn main() {}
+//! The `saltwise` binary: opens the workbench window.
+
+fn main() -> std::process::ExitCode {
+    saltwise::run()
+}

@@ -1,0 +1,58 @@
+//! The Saltwise workbench: a recipe table, the live pH, the dose curve and the species chart of a
+//! water-based recipe, over the `saltwise_chem` core.
+//!
+//! [`Workbench`] is the whole window; [`Workbench::show`] draws one frame into any [`egui::Ui`],
+//! so the tests drive the real program through `egui_kittest`. Every user action is a
+//! [`Command`] handled in one place (`command.rs`); the saved [`saltwise_chem::project::Project`]
+//! is kept apart from runtime state (solved results, undo history, selection).
+
+mod adapter;
+mod app;
+mod command;
+mod config;
+mod engine;
+mod history;
+mod ui;
+
+pub use app::{Prompt, Workbench};
+pub use command::{Command, Resolution};
+pub use config::{CONFIG_DIR_ENV, ConfigStore, UserConfig};
+pub use engine::{CurveData, CurvePoint, Engine, SpeciesData};
+
+use std::process::ExitCode;
+
+/// Opens the window on the demo project and runs until it closes.
+pub fn run() -> ExitCode {
+    let store = ConfigStore::from_env();
+    let (config, _) = store.load();
+    let size = config.window_size.unwrap_or([1600.0, 1000.0]);
+    let options = eframe::NativeOptions {
+        renderer: eframe::Renderer::Glow,
+        persist_window: false,
+        viewport: egui::ViewportBuilder::default()
+            .with_title("Saltwise")
+            .with_app_id("saltwise")
+            .with_inner_size([size[0].max(640.0), size[1].max(480.0)])
+            .with_min_inner_size([640.0, 480.0]),
+        ..Default::default()
+    };
+    let args: Vec<std::path::PathBuf> = std::env::args_os().skip(1).map(Into::into).collect();
+    let result = eframe::run_native(
+        "Saltwise",
+        options,
+        Box::new(move |_cc| {
+            let mut app = Workbench::new(store);
+            if let Some(path) = args.first() {
+                app.queue(Command::OpenPath(path.clone()));
+            }
+            Ok(Box::new(app))
+        }),
+    );
+    match result {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(e) => {
+            eprintln!("saltwise: the window could not be opened: {e}");
+            ExitCode::FAILURE
+        }
+    }
+}

@@ -1,0 +1,203 @@
+//! The dose curve: pH against the dose of a chosen pH adjuster, with the target band, the current
+//! recipe, equivalence points, a hover readout and buffer capacity as a second chart.
+
+use egui::{Color32, DragValue, RichText, Ui};
+use egui_plot::{Corner, Legend, Line, MarkerShape, Plot, PlotPoints, Points, Span, VLine};
+use saltwise_chem::Library;
+use saltwise_chem::library::ResolvedRelease;
+use saltwise_chem::project::Settings;
+
+use super::sig;
+use crate::app::PanelState;
+use crate::engine::Engine;
+
+/// Height of the pH chart, points.
+const CHART_HEIGHT: f32 = 300.0;
+/// Height of the buffer-capacity chart, points.
+const BUFFER_HEIGHT: f32 = 140.0;
+
+/// Draws the dose-curve panel.
+pub fn dose_curve_ui(
+    ui: &mut Ui,
+    settings: &mut Settings,
+    engine: &Engine,
+    panels: &mut PanelState,
+) {
+    ui.heading("Dose curve");
+    let Ok(library) = engine.library() else {
+        return;
+    };
+    ui.horizontal_wrapped(|ui| {
+        ui.label("Adjuster");
+        adjuster_picker(ui, settings, library);
+    });
+    ui.horizontal_wrapped(|ui| {
+        let label = ui.label("Largest dose");
+        let speed = (settings.dose_max_g * 0.005).max(0.01);
+        ui.add(
+            DragValue::new(&mut settings.dose_max_g)
+                .range(0.001..=1.0e6)
+                .speed(speed)
+                .suffix(" g")
+                .max_decimals(3),
+        )
+        .labelled_by(label.id);
+        ui.checkbox(&mut panels.show_buffer_capacity, "Show buffer capacity");
+    });
+    let curve = match engine.curve() {
+        Some(Ok(c)) => c,
+        Some(Err(e)) => {
+            ui.colored_label(super::ERROR, format!("No dose curve: {e}"));
+            return;
+        }
+        None => return,
+    };
+    match (&curve.to_target, settings.target_ph) {
+        (Some(Ok(g)), Some(t)) => {
+            ui.label(
+                RichText::new(format!(
+                    "To reach pH {t:.2}: add {} g of {}",
+                    sig(*g, 4),
+                    curve.adjuster_name
+                ))
+                .strong()
+                .color(super::TARGET),
+            );
+        }
+        (Some(Err(e)), _) => {
+            ui.colored_label(super::WARN, e);
+        }
+        _ => {
+            ui.weak("Set a target pH in the readout to see the dose that reaches it.");
+        }
+    }
+    let line: PlotPoints = curve.points.iter().map(|p| [p.dose_g, p.ph]).collect();
+    let x_label = format!("dose of {}, g", curve.adjuster_name);
+    let link = egui::Id::unique("dose_axis_link");
+    let target = settings.target_ph;
+    let tolerance = settings.target_tolerance;
+    let current = curve.points.first().map(|p| [p.dose_g, p.ph]);
+    let eq = curve.equivalence.clone();
+    let dose = curve
+        .to_target
+        .as_ref()
+        .and_then(|r| r.as_ref().ok())
+        .copied();
+    Plot::new("dose_plot")
+        .height(CHART_HEIGHT)
+        .x_axis_label(x_label.clone())
+        .y_axis_label("pH")
+        .legend(Legend::default().position(Corner::LeftTop))
+        .link_axis(link, [true, false])
+        .link_cursor(link, [true, false])
+        .include_x(0.0)
+        .label_formatter(|pos| {
+            let p = match pos {
+                egui_plot::HoverPosition::NearDataPoint { position, .. }
+                | egui_plot::HoverPosition::Elsewhere { position } => position,
+            };
+            Some(format!("dose {} g\npH {:.2}", sig(p.x, 4), p.y))
+        })
+        .show(ui, |plot| {
+            if let Some(t) = target {
+                plot.span(
+                    Span::new("target band", (t - tolerance)..=(t + tolerance))
+                        .axis(egui_plot::Axis::Y)
+                        .fill(super::TARGET.gamma_multiply(0.18))
+                        .border_color(super::TARGET),
+                );
+            }
+            plot.line(
+                Line::new("pH", line)
+                    .width(2.0)
+                    .color(Color32::from_rgb(0x3a, 0x6e, 0xc8)),
+            );
+            if let Some(c) = current {
+                plot.points(
+                    Points::new("current recipe", vec![c])
+                        .shape(MarkerShape::Diamond)
+                        .radius(7.0)
+                        .color(Color32::from_rgb(0xe0, 0x6c, 0x1f)),
+                );
+            }
+            if !eq.is_empty() {
+                plot.points(
+                    Points::new("equivalence point", eq)
+                        .shape(MarkerShape::Circle)
+                        .radius(5.0)
+                        .filled(false)
+                        .color(Color32::from_rgb(0x8e, 0x44, 0xad)),
+                );
+            }
+            if let Some(d) = dose {
+                plot.vline(VLine::new("dose to target", d).color(super::TARGET));
+            }
+        });
+    if !curve.equivalence.is_empty() {
+        let list: Vec<String> = curve
+            .equivalence
+            .iter()
+            .map(|[d, ph]| format!("{} g (pH {ph:.2})", sig(*d, 3)))
+            .collect();
+        ui.label(format!("Equivalence points: {}", list.join(", ")));
+    }
+    if panels.show_buffer_capacity {
+        let beta: PlotPoints = curve
+            .points
+            .iter()
+            .map(|p| [p.dose_g, p.buffer_capacity])
+            .collect();
+        Plot::new("buffer_plot")
+            .height(BUFFER_HEIGHT)
+            .x_axis_label(x_label)
+            .y_axis_label("β, mol/kg per pH")
+            .link_axis(link, [true, false])
+            .link_cursor(link, [true, false])
+            .include_y(0.0)
+            .label_formatter(|pos| {
+                let p = match pos {
+                    egui_plot::HoverPosition::NearDataPoint { position, .. }
+                    | egui_plot::HoverPosition::Elsewhere { position } => position,
+                };
+                Some(format!("dose {} g\nβ {}", sig(p.x, 4), sig(p.y, 3)))
+            })
+            .show(ui, |plot| {
+                plot.line(
+                    Line::new("buffer capacity", beta)
+                        .width(2.0)
+                        .color(Color32::from_rgb(0x8e, 0x44, 0xad)),
+                );
+            });
+    }
+}
+
+fn adjuster_picker(ui: &mut Ui, settings: &mut Settings, library: &Library) {
+    let selected = library
+        .entry(&settings.adjuster)
+        .map_or_else(|| settings.adjuster.clone(), |e| e.ingredient.name.clone());
+    egui::ComboBox::from_id_salt("adjuster")
+        .selected_text(selected)
+        .width(260.0)
+        .show_ui(ui, |ui| {
+            for e in library
+                .entries()
+                .iter()
+                .filter(|e| moves_ph(library, &e.releases))
+            {
+                ui.selectable_value(
+                    &mut settings.adjuster,
+                    e.ingredient.id.clone(),
+                    &e.ingredient.name,
+                );
+            }
+        })
+        .response
+        .on_hover_text("pH adjuster");
+}
+
+fn moves_ph(library: &Library, releases: &[ResolvedRelease]) -> bool {
+    releases.iter().any(|r| match *r {
+        ResolvedRelease::Ion { ion, .. } => library.is_proton_ion(ion),
+        ResolvedRelease::System { .. } => true,
+    })
+}

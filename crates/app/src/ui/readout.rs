@@ -1,0 +1,150 @@
+//! The readout: pH large, p[H], ionic strength with the model's range, buffer capacity, and the
+//! conditions (temperature, activity model, target).
+
+use egui::{DragValue, RichText, Ui};
+use saltwise_chem::ActivityModel;
+use saltwise_chem::project::Settings;
+
+use super::sig;
+use crate::engine::Engine;
+
+/// Draws the readout.
+pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
+    egui::Frame::group(ui.style()).show(ui, |ui| {
+        ui.set_width(ui.available_width());
+        ui.horizontal(|ui| {
+            values_ui(ui, settings, engine);
+            ui.separator();
+            conditions_ui(ui, settings);
+        });
+        if let Some(report) = engine.solved() {
+            for w in &report.warnings {
+                ui.colored_label(super::WARN, format!("Caution: {w}"));
+            }
+        }
+    });
+}
+
+fn values_ui(ui: &mut Ui, settings: &Settings, engine: &Engine) {
+    match engine.report() {
+        Some(Ok(report)) => {
+            let s = &report.solution;
+            ui.vertical(|ui| {
+                ui.label(RichText::new(format!("pH {:.2}", s.ph)).size(46.0).strong())
+                    .on_hover_text("pH as a meter reads it: −log a(H+)");
+                if let Some(target) = settings.target_ph {
+                    let off = s.ph - target;
+                    let (text, color) = if off.abs() <= settings.target_tolerance {
+                        ("within the target band".to_owned(), super::TARGET)
+                    } else if off > 0.0 {
+                        (format!("{off:.2} above target pH {target:.2}"), super::WARN)
+                    } else {
+                        (
+                            format!("{:.2} below target pH {target:.2}", -off),
+                            super::WARN,
+                        )
+                    };
+                    ui.label(RichText::new(text).color(color));
+                }
+            });
+            ui.separator();
+            egui::Grid::new("readout_values").spacing([12.0, 4.0]).show(ui, |ui| {
+                ui.label("p[H]");
+                ui.label(RichText::new(format!("{:.2}", s.p_h_conc)).size(18.0))
+                    .on_hover_text("−log of the H+ molality");
+                ui.end_row();
+                ui.label("Ionic strength");
+                let limit = report.conditions.activity.max_ionic_strength();
+                let text = RichText::new(format!("{} mol/kg", sig(s.ionic_strength, 3))).size(18.0);
+                if s.ionic_strength > limit {
+                    ui.label(text.color(super::WARN)).on_hover_text(format!(
+                        "above {limit} mol/kg, the usual range of this activity model: treat the pH as indicative"
+                    ));
+                    ui.end_row();
+                    ui.label("");
+                    ui.colored_label(
+                        super::WARN,
+                        format!("above the {limit} mol/kg range of the model"),
+                    );
+                } else {
+                    ui.label(text);
+                }
+                ui.end_row();
+                ui.label("Buffer capacity");
+                ui.label(
+                    RichText::new(format!("{} mol/kg per pH", sig(s.buffer_capacity, 3))).size(18.0),
+                )
+                .on_hover_text("β = dC(base)/dpH: strong base per kg of water that moves the pH by one unit");
+                ui.end_row();
+            });
+        }
+        Some(Err(e)) => {
+            ui.vertical(|ui| {
+                ui.label(RichText::new("pH —").size(46.0).strong());
+                ui.colored_label(super::ERROR, e);
+            });
+        }
+        None => {
+            ui.label(RichText::new("pH —").size(46.0).strong());
+        }
+    }
+}
+
+fn conditions_ui(ui: &mut Ui, settings: &mut Settings) {
+    egui::Grid::new("readout_conditions")
+        .spacing([8.0, 4.0])
+        .show(ui, |ui| {
+            let label = ui.label("Temperature");
+            ui.add(
+                DragValue::new(&mut settings.temp_c)
+                    .range(0.0..=95.0)
+                    .speed(0.2)
+                    .suffix(" °C")
+                    .max_decimals(1),
+            )
+            .labelled_by(label.id);
+            ui.end_row();
+            ui.label("Activity model");
+            egui::ComboBox::from_id_salt("activity_model")
+                .selected_text(activity_words(settings.activity))
+                .show_ui(ui, |ui| {
+                    for m in [ActivityModel::Davies, ActivityModel::Ideal] {
+                        ui.selectable_value(&mut settings.activity, m, activity_words(m));
+                    }
+                })
+                .response
+                .on_hover_text("Activity model");
+            ui.end_row();
+            let mut has_target = settings.target_ph.is_some();
+            if ui.checkbox(&mut has_target, "Target pH").changed() {
+                settings.target_ph = has_target.then_some(7.0);
+            }
+            ui.horizontal(|ui| {
+                if let Some(t) = settings.target_ph.as_mut() {
+                    ui.add(
+                        DragValue::new(t)
+                            .range(-1.0..=15.0)
+                            .speed(0.01)
+                            .max_decimals(2),
+                    )
+                    .on_hover_text("Target pH value");
+                    ui.label("±");
+                    ui.add(
+                        DragValue::new(&mut settings.target_tolerance)
+                            .range(0.0..=3.0)
+                            .speed(0.01)
+                            .max_decimals(2),
+                    )
+                    .on_hover_text("Target band half-width");
+                }
+            });
+            ui.end_row();
+        });
+}
+
+fn activity_words(model: ActivityModel) -> &'static str {
+    match model {
+        ActivityModel::Davies => "Davies (to 0.5 mol/kg)",
+        ActivityModel::Ideal => "ideal (dilute only)",
+    }
+}

@@ -1,0 +1,136 @@
+//! The species chart: fractions of every form of a chosen system against pH 0–14 at the recipe's
+//! ionic strength, the current pH, the dominant form, and the molality of each form.
+
+use egui::{Color32, RichText, Ui};
+use egui_plot::{Corner, Legend, Line, Plot, VLine};
+use saltwise_chem::project::Settings;
+
+use super::sig;
+use crate::engine::Engine;
+
+/// Height of the chart, points.
+const CHART_HEIGHT: f32 = 300.0;
+/// Colours of the forms, in order.
+const PALETTE: [Color32; 7] = [
+    Color32::from_rgb(0xc0, 0x50, 0x40),
+    Color32::from_rgb(0x3a, 0x6e, 0xc8),
+    Color32::from_rgb(0x2e, 0x9d, 0x6b),
+    Color32::from_rgb(0x8e, 0x44, 0xad),
+    Color32::from_rgb(0xd9, 0x8c, 0x00),
+    Color32::from_rgb(0x1f, 0x9e, 0xb5),
+    Color32::from_rgb(0x80, 0x80, 0x80),
+];
+
+/// Draws the species panel.
+pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
+    ui.heading("Species");
+    let (Ok(library), Some(report)) = (engine.library(), engine.solved()) else {
+        ui.weak("Species appear once the recipe solves.");
+        return;
+    };
+    if report.systems.is_empty() {
+        ui.label(
+            RichText::new(
+                "No acid–base system in this recipe: add a weak acid, a weak base or one of their salts to see its forms here.",
+            )
+            .italics(),
+        );
+        return;
+    }
+    let Some(data) = engine.species() else {
+        return;
+    };
+    ui.horizontal_wrapped(|ui| {
+        ui.label("System");
+        egui::ComboBox::from_id_salt("species_system")
+            .selected_text(&data.system_name)
+            .width(240.0)
+            .show_ui(ui, |ui| {
+                for st in &report.systems {
+                    if let Some(s) = library.systems().get(st.system) {
+                        let chosen = settings.species_system.as_deref() == Some(s.id.as_str())
+                            || (settings.species_system.is_none() && st.system == data.system);
+                        if ui.selectable_label(chosen, &s.name).clicked() {
+                            settings.species_system = Some(s.id.clone());
+                        }
+                    }
+                }
+            })
+            .response
+            .on_hover_text("Species system");
+    });
+    let ph = report.solution.ph;
+    let dominant = data.forms.get(data.dominant).cloned().unwrap_or_default();
+    let share = data
+        .fractions_now
+        .get(data.dominant)
+        .copied()
+        .unwrap_or(0.0);
+    ui.label(
+        RichText::new(format!(
+            "At pH {ph:.2} mostly {dominant} ({:.0} %)",
+            share * 100.0
+        ))
+        .strong(),
+    );
+    Plot::new("species_plot")
+        .height(CHART_HEIGHT)
+        .x_axis_label("pH")
+        .y_axis_label("fraction")
+        .legend(Legend::default().position(Corner::RightTop))
+        .include_x(0.0)
+        .include_x(14.0)
+        .include_y(0.0)
+        .include_y(1.05)
+        .allow_zoom(false)
+        .allow_drag(false)
+        .allow_scroll(false)
+        .label_formatter(|pos| {
+            let p = match pos {
+                egui_plot::HoverPosition::NearDataPoint { position, .. }
+                | egui_plot::HoverPosition::Elsewhere { position } => position,
+            };
+            Some(format!("pH {:.2}\nfraction {:.3}", p.x, p.y))
+        })
+        .show(ui, |plot| {
+            for (j, (name, points)) in data.forms.iter().zip(&data.curves).enumerate() {
+                plot.line(
+                    Line::new(name.clone(), points.clone())
+                        .width(2.0)
+                        .color(PALETTE[j % PALETTE.len()]),
+                );
+            }
+            plot.vline(
+                VLine::new(format!("recipe pH {ph:.2}"), ph)
+                    .color(Color32::GRAY)
+                    .width(1.5),
+            );
+        });
+    ui.label(format!(
+        "At ionic strength {} mol/kg",
+        sig(data.ionic_strength, 3)
+    ));
+    egui::Grid::new("species_table")
+        .striped(true)
+        .spacing([14.0, 3.0])
+        .show(ui, |ui| {
+            ui.label(RichText::new("Form").strong());
+            ui.label(RichText::new("Fraction").strong());
+            ui.label(RichText::new("mol/kg").strong());
+            ui.end_row();
+            for (j, name) in data.forms.iter().enumerate() {
+                let text = RichText::new(name).color(PALETTE[j % PALETTE.len()]);
+                ui.label(if j == data.dominant {
+                    text.strong()
+                } else {
+                    text
+                });
+                ui.label(format!(
+                    "{:.1} %",
+                    data.fractions_now.get(j).copied().unwrap_or(0.0) * 100.0
+                ));
+                ui.label(sig(data.molalities.get(j).copied().unwrap_or(0.0), 3));
+                ui.end_row();
+            }
+        });
+}

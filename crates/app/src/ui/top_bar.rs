@@ -1,0 +1,126 @@
+//! The bar along the top: file, edit and view menus, the project name, the unsaved-changes
+//! question and the status line.
+
+use egui::{Button, Key, KeyboardShortcut, Modifiers, RichText, Ui};
+
+use crate::app::Workbench;
+use crate::command::{Command, Resolution};
+
+/// Draws the top bar.
+pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
+    let ctx = ui.ctx().clone();
+    let shortcut = |m: Modifiers, k: Key| ctx.format_shortcut(&KeyboardShortcut::new(m, k));
+    let cmd = Modifiers::COMMAND;
+    let shift = Modifiers::COMMAND | Modifiers::SHIFT;
+    let mut commands = Vec::new();
+    egui::MenuBar::new().ui(ui, |ui| {
+        ui.menu_button("File", |ui| {
+            let item = |ui: &mut Ui, text: &str, keys: Option<String>| {
+                let mut b = Button::new(text);
+                if let Some(k) = keys {
+                    b = b.shortcut_text(k);
+                }
+                ui.add(b).clicked()
+            };
+            if item(ui, "New", Some(shortcut(cmd, Key::N))) {
+                commands.push(Command::New);
+            }
+            if item(ui, "Open…", Some(shortcut(cmd, Key::O))) {
+                commands.push(Command::Open);
+            }
+            if item(ui, "Open the demo project", None) {
+                commands.push(Command::OpenDemo);
+            }
+            ui.menu_button("Open recent", |ui| {
+                if app.config.recent_files.is_empty() {
+                    ui.label("No recent projects yet");
+                }
+                for path in &app.config.recent_files {
+                    if ui.button(path.display().to_string()).clicked() {
+                        commands.push(Command::OpenPath(path.clone()));
+                    }
+                }
+            });
+            ui.separator();
+            if item(ui, "Save", Some(shortcut(cmd, Key::S))) {
+                commands.push(Command::Save);
+            }
+            if item(ui, "Save as…", Some(shortcut(shift, Key::S))) {
+                commands.push(Command::SaveAs);
+            }
+            ui.separator();
+            if item(ui, "Quit", Some(shortcut(cmd, Key::Q))) {
+                commands.push(Command::Quit);
+            }
+        });
+        ui.menu_button("Edit", |ui| {
+            let undo = Button::new("Undo").shortcut_text(shortcut(cmd, Key::Z));
+            if ui.add_enabled(app.history.can_undo(), undo).clicked() {
+                commands.push(Command::Undo);
+            }
+            let redo = Button::new("Redo").shortcut_text(shortcut(shift, Key::Z));
+            if ui.add_enabled(app.history.can_redo(), redo).clicked() {
+                commands.push(Command::Redo);
+            }
+        });
+        ui.menu_button("View", |ui| {
+            let zin = Button::new("Larger text").shortcut_text(shortcut(cmd, Key::Plus));
+            if ui.add(zin).clicked() {
+                commands.push(Command::ZoomIn);
+            }
+            let zout = Button::new("Smaller text").shortcut_text(shortcut(cmd, Key::Minus));
+            if ui.add(zout).clicked() {
+                commands.push(Command::ZoomOut);
+            }
+            let normal = Button::new("Normal size").shortcut_text(shortcut(cmd, Key::Num0));
+            if ui.add(normal).clicked() {
+                commands.push(Command::ZoomReset);
+            }
+        });
+        ui.separator();
+        let label = ui.label("Project");
+        ui.add(
+            egui::TextEdit::singleline(&mut app.project.name)
+                .desired_width(320.0)
+                .hint_text("name of this project"),
+        )
+        .labelled_by(label.id);
+        if let Some(path) = &app.file {
+            ui.weak(path.display().to_string());
+        } else {
+            ui.weak("not saved to a file yet");
+        }
+        if app.is_dirty() {
+            ui.label(RichText::new("• unsaved changes").color(super::WARN));
+        }
+    });
+    if let Some(prompt) = &app.prompt {
+        egui::Frame::group(ui.style())
+            .fill(ui.visuals().warn_fg_color.gamma_multiply(0.15))
+            .show(ui, |ui| {
+                ui.horizontal_wrapped(|ui| {
+                    ui.label(RichText::new(prompt.question()).strong());
+                    if ui.button("Save and continue").clicked() {
+                        commands.push(Command::Resolve(Resolution::SaveFirst));
+                    }
+                    if ui.button("Discard changes").clicked() {
+                        commands.push(Command::Resolve(Resolution::Discard));
+                    }
+                    if ui.button("Cancel").clicked() {
+                        commands.push(Command::Resolve(Resolution::Cancel));
+                    }
+                });
+            });
+    }
+    if let Some(status) = &app.status {
+        let text = RichText::new(&status.text).small();
+        ui.label(if status.is_error {
+            text.color(super::ERROR)
+        } else {
+            text.weak()
+        });
+    }
+    for c in commands {
+        app.queue(c);
+    }
+}

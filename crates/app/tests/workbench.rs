@@ -1,0 +1,205 @@
+//! The workbench driven as a person drives it: by the labels on the screen.
+#![expect(
+    clippy::unwrap_used,
+    reason = "tests fail loudly on a missing widget or file"
+)]
+
+use std::path::Path;
+
+use egui::{Key, Modifiers};
+use egui_kittest::Harness;
+use egui_kittest::kittest::Queryable as _;
+use saltwise::{Command, ConfigStore, Workbench};
+use saltwise_chem::project::Project;
+use saltwise_chem::{Conditions, Library, Recipe, RecipeLine, report};
+
+fn harness(project: Project, config_dir: &Path) -> Harness<'static, Workbench> {
+    Harness::builder()
+        .with_size([1600.0, 1000.0])
+        .build_ui_state(
+            |ui, app: &mut Workbench| app.show(ui),
+            Workbench::with_project(project, ConfigStore::at(config_dir)),
+        )
+}
+
+/// A bench recipe of ingredients every library has: water and citric acid.
+fn citric_project() -> Project {
+    Project {
+        name: "Citric rinse".into(),
+        recipe: Recipe {
+            lines: vec![
+                RecipeLine::grams("water", 900.0),
+                RecipeLine::grams("citric_acid_monohydrate", 10.0),
+            ],
+            qs_to_g: None,
+        },
+        ..Project::default()
+    }
+}
+
+fn expected_ph(project: &Project) -> f64 {
+    let library = Library::built_in().unwrap();
+    let conditions = Conditions {
+        temp_c: project.settings.temp_c,
+        activity: project.settings.activity,
+    };
+    report::evaluate(&library, &project.recipe, conditions)
+        .unwrap()
+        .solution
+        .ph
+}
+
+fn type_into(harness: &mut Harness<'_, Workbench>, label: &str, text: &str) {
+    harness.get_by_label(label).focus();
+    harness.run();
+    harness.key_press_modifiers(Modifiers::COMMAND, Key::A);
+    harness.get_by_label(label).type_text(text);
+    harness.run();
+    harness.key_press(Key::Enter);
+    harness.run();
+}
+
+#[test]
+fn adding_citric_acid_from_the_picker_and_typing_its_amount_shows_the_computed_ph() {
+    let dir = tempfile::tempdir().unwrap();
+    let start = Project {
+        recipe: Recipe {
+            lines: vec![RecipeLine::grams("water", 500.0)],
+            qs_to_g: None,
+        },
+        ..Project::default()
+    };
+    let mut h = harness(start, dir.path());
+
+    type_into(&mut h, "Search the library", "citric");
+    h.get_by_label("Add citric acid monohydrate").click();
+    h.run();
+    assert_eq!(h.state().project().recipe.lines.len(), 2);
+
+    type_into(&mut h, "Amount of line 2", "12.5");
+    let project = h.state().project().clone();
+    assert_eq!(project.recipe.lines[1].amount.value, 12.5);
+
+    let ph = expected_ph(&project);
+    h.get_by_label(&format!("pH {ph:.2}"));
+    let shown = h.state().engine().solved().unwrap().solution.ph;
+    assert!((shown - ph).abs() < 1e-12, "window {shown}, core {ph}");
+}
+
+#[test]
+fn choosing_another_adjuster_redraws_the_dose_curve() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(citric_project(), dir.path());
+    let before = h.state().engine().curve().unwrap().clone().unwrap();
+    assert_eq!(before.adjuster, "sodium_hydroxide_50");
+    assert!(
+        before.points.last().unwrap().ph > before.points[0].ph,
+        "alkali raises pH"
+    );
+
+    h.get_by_label("pH adjuster").click();
+    h.run();
+    h.get_by_label("hydrochloric acid 36 %").click();
+    h.run();
+
+    let after = h.state().engine().curve().unwrap().clone().unwrap();
+    assert_eq!(after.adjuster, "hydrochloric_acid_36");
+    assert!(
+        after.points.last().unwrap().ph < after.points[0].ph,
+        "acid lowers pH"
+    );
+    assert_ne!(before.points, after.points);
+}
+
+#[test]
+fn a_saved_project_reopens_with_the_same_recipe() {
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("rinse.ron");
+    let mut h = harness(citric_project(), dir.path());
+    h.state_mut().project_mut().recipe.lines[1].amount.value = 7.25;
+    h.run();
+    assert!(h.state().is_dirty());
+    assert!(
+        h.state().title().starts_with('•'),
+        "unsaved mark in {}",
+        h.state().title()
+    );
+
+    h.state_mut().queue(Command::SaveToPath(file.clone()));
+    h.run();
+    assert!(!h.state().is_dirty());
+    assert_eq!(h.state().title(), "rinse.ron — Saltwise");
+    let saved = h.state().project().clone();
+
+    h.state_mut().queue(Command::New);
+    h.run();
+    assert!(h.state().project().recipe.lines.is_empty());
+
+    h.state_mut().queue(Command::OpenPath(file.clone()));
+    h.run();
+    assert_eq!(h.state().project().recipe, saved.recipe);
+    assert_eq!(h.state().project().settings, saved.settings);
+    assert_eq!(h.state().file_path(), Some(file.as_path()));
+
+    // The file is remembered in the config folder for the next session.
+    let (config, problem) = ConfigStore::at(dir.path()).load();
+    assert!(problem.is_none());
+    assert_eq!(config.recent_files.first(), Some(&file));
+}
+
+#[test]
+fn ctrl_z_undoes_a_typed_amount_and_ctrl_shift_z_redoes_it() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(citric_project(), dir.path());
+    type_into(&mut h, "Amount of line 2", "30");
+    assert_eq!(h.state().project().recipe.lines[1].amount.value, 30.0);
+
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run();
+    assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
+    assert!(!h.state().is_dirty());
+
+    h.key_press_modifiers(Modifiers::COMMAND | Modifiers::SHIFT, Key::Z);
+    h.run();
+    assert_eq!(h.state().project().recipe.lines[1].amount.value, 30.0);
+}
+
+#[test]
+fn new_with_unsaved_changes_asks_first_and_discarding_goes_ahead() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(citric_project(), dir.path());
+    h.get_by_label("Remove line 1").click();
+    h.run();
+    assert_eq!(h.state().project().recipe.lines.len(), 1);
+
+    h.state_mut().queue(Command::New);
+    h.run();
+    assert!(h.state().prompt().is_some(), "asks before dropping changes");
+    h.get_by_label("Cancel").click();
+    h.run();
+    assert_eq!(h.state().project().recipe.lines.len(), 1);
+
+    h.state_mut().queue(Command::Quit);
+    h.run();
+    assert!(!h.state().quit_requested());
+    h.get_by_label("Discard changes").click();
+    h.run();
+    assert!(h.state().quit_requested());
+}
+
+#[test]
+fn a_frame_that_changes_nothing_solves_nothing() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(citric_project(), dir.path());
+    let solves = h.state().engine().solve_count();
+    h.run_steps(5);
+    assert_eq!(h.state().engine().solve_count(), solves);
+}
+
+#[test]
+fn the_demo_project_opens_without_a_panic() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(Project::demo(), dir.path());
+    h.run();
+    assert!(h.state().engine().report().is_some());
+}
