@@ -147,11 +147,16 @@ impl<'a> Doser<'a> {
 
     /// Sweeps `points` doses evenly from 0 to `max_g`, each solve starting from the previous one.
     pub fn curve(&self, max_g: f64, points: usize) -> DoseCurve {
+        self.curve_between(0.0, max_g, points)
+    }
+
+    /// Sweeps `points` doses evenly from `from_g` to `to_g`, warm-started point to point.
+    pub fn curve_between(&self, from_g: f64, to_g: f64, points: usize) -> DoseCurve {
         let n = points.max(2);
         let mut out = Vec::with_capacity(n);
         let mut guess = None;
         for i in 0..n {
-            let dose_g = max_g * i as f64 / (n - 1) as f64;
+            let dose_g = from_g + (to_g - from_g) * i as f64 / (n - 1) as f64;
             let s = self.solve(dose_g, guess);
             guess = Some(Guess {
                 ph: s.ph,

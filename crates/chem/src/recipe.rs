@@ -317,13 +317,7 @@ impl Recipe {
                 });
             }
             let e = &library.entries()[entry];
-            let grams = match line.amount.unit {
-                Unit::Gram => Some(v),
-                Unit::Kilogram => Some(v * 1e3),
-                Unit::Milligram => Some(v * 1e-3),
-                Unit::Mole => Some(v * e.molar_mass_g_per_mol / e.ingredient.assay),
-                Unit::Percent => None,
-            };
+            let grams = e.grams(line.amount);
             if line.enabled {
                 match grams {
                     Some(g) => fixed_g += g,

@@ -1,1 +1,31 @@
-fn main() {}
+//! `saltwise-cli`: the chemistry core from a terminal — pH, dose curves, doses and the library.
+//!
+//! Exit codes: 0 success; 1 a problem with the input (message on stderr); 2 bad usage.
+
+mod args;
+mod input;
+mod output;
+
+use std::process::ExitCode;
+
+use clap::Parser;
+
+fn main() -> ExitCode {
+    let cli = args::Cli::parse();
+    match run(cli) {
+        Ok(code) => code,
+        Err(e) => {
+            eprintln!("error: {e:#}");
+            ExitCode::from(1)
+        }
+    }
+}
+
+fn run(cli: args::Cli) -> anyhow::Result<ExitCode> {
+    match cli.command {
+        args::Command::Ph(a) => output::ph(&a),
+        args::Command::Curve(a) => output::curve(&a),
+        args::Command::Dose(a) => output::dose(&a),
+        args::Command::Library(a) => output::library(&a),
+    }
+}

@@ -56,6 +56,21 @@ pub struct Entry {
     pub releases: Vec<ResolvedRelease>,
 }
 
+impl Entry {
+    /// Grams as supplied of an amount; `None` for % w/w, which needs the batch size.
+    pub fn grams(&self, amount: crate::recipe::Amount) -> Option<f64> {
+        use crate::recipe::Unit;
+        let v = amount.value;
+        match amount.unit {
+            Unit::Gram => Some(v),
+            Unit::Kilogram => Some(v * 1e3),
+            Unit::Milligram => Some(v * 1e-3),
+            Unit::Mole => Some(v * self.molar_mass_g_per_mol / self.ingredient.assay),
+            Unit::Percent => None,
+        }
+    }
+}
+
 /// A validated library ready for use.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Library {

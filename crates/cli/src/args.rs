@@ -1,0 +1,89 @@
+//! Command-line arguments as typed; resolved into recipes in `input.rs`.
+
+use std::path::PathBuf;
+
+use clap::{Args, Parser, Subcommand, ValueEnum};
+
+/// Saltwise: pH of aqueous recipes by mass, dose curves and doses to target.
+#[derive(Debug, Parser)]
+#[command(name = "saltwise-cli", version, about)]
+pub struct Cli {
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// pH, p[H], ionic strength, buffer capacity and species of a recipe.
+    Ph(RecipeArgs),
+    /// pH against the dose of an ingredient added to the recipe.
+    Curve(CurveArgs),
+    /// How much of an adjuster brings the recipe to a target pH.
+    Dose(DoseArgs),
+    /// The ingredients, systems and ions of the library, with constants and sources.
+    Library(LibraryArgs),
+}
+
+/// The activity model named on the command line.
+#[derive(Debug, Clone, Copy, ValueEnum)]
+pub enum Activity {
+    /// Davies equation with A(T).
+    Davies,
+    /// Activity coefficients of 1.
+    Ideal,
+}
+
+#[derive(Debug, Args)]
+pub struct RecipeArgs {
+    /// Ingredients as id=AMOUNT, AMOUNT a number with unit g, kg, mg, mol or % (e.g. water=900g).
+    pub items: Vec<String>,
+    /// Read the recipe and settings from a project file saved by the workbench.
+    #[arg(long, value_name = "FILE")]
+    pub project: Option<PathBuf>,
+    /// Fill the batch with water to this total mass (q.s.), e.g. 1000g.
+    #[arg(long, value_name = "MASS")]
+    pub qs_to: Option<String>,
+    /// Temperature in °C (0–95); default 25, or the project's.
+    #[arg(long, value_name = "C")]
+    pub temp: Option<f64>,
+    /// Activity model; default davies, or the project's.
+    #[arg(long, value_enum)]
+    pub activity: Option<Activity>,
+    /// Print JSON instead of text.
+    #[arg(long)]
+    pub json: bool,
+}
+
+#[derive(Debug, Args)]
+pub struct CurveArgs {
+    #[command(flatten)]
+    pub recipe: RecipeArgs,
+    /// The ingredient to dose and its range, id=FROM..TO with a unit (e.g. sodium_hydroxide_50=0..20g).
+    #[arg(long, value_name = "ID=FROM..TO")]
+    pub dose: String,
+    /// Number of points on the curve.
+    #[arg(long, default_value_t = 101)]
+    pub points: usize,
+    /// Print CSV with header dose_g,ph,buffer_capacity.
+    #[arg(long, conflicts_with = "json")]
+    pub csv: bool,
+}
+
+#[derive(Debug, Args)]
+pub struct DoseArgs {
+    #[command(flatten)]
+    pub recipe: RecipeArgs,
+    /// The pH adjuster, a library id (e.g. lactic_acid_88).
+    #[arg(long)]
+    pub adjuster: String,
+    /// The pH to reach.
+    #[arg(long, value_name = "X", allow_negative_numbers = true)]
+    pub target_ph: f64,
+}
+
+#[derive(Debug, Args)]
+pub struct LibraryArgs {
+    /// Print JSON instead of text.
+    #[arg(long)]
+    pub json: bool,
+}

@@ -1,0 +1,141 @@
+//! Turns arguments into a library, a recipe and conditions: the one place inputs are checked.
+
+use anyhow::{Context, Result, anyhow, bail};
+use saltwise_chem::project::Project;
+use saltwise_chem::recipe::Unit;
+use saltwise_chem::{ActivityModel, Amount, Conditions, Library, Recipe, RecipeLine};
+
+use crate::args::{Activity, RecipeArgs};
+
+/// A recipe ready to solve.
+pub struct Resolved {
+    pub library: Library,
+    pub recipe: Recipe,
+    pub conditions: Conditions,
+}
+
+/// Builds the library, recipe and conditions from the arguments (and project file, if any).
+pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
+    let mut library = Library::built_in().context("the built-in library")?;
+    let mut conditions = Conditions::default();
+    let mut recipe = Recipe::default();
+    if let Some(path) = &args.project {
+        let project = Project::load(path)?;
+        library
+            .extend(project.custom.clone())
+            .with_context(|| format!("custom ingredients in {}", path.display()))?;
+        conditions = Conditions {
+            temp_c: project.settings.temp_c,
+            activity: project.settings.activity,
+        };
+        recipe = project.recipe;
+    }
+    for item in &args.items {
+        let (id, amount) = parse_item(item)?;
+        recipe.lines.push(RecipeLine {
+            ingredient: id,
+            amount,
+            enabled: true,
+        });
+    }
+    if let Some(qs) = &args.qs_to {
+        recipe.qs_to_g = Some(mass_g(qs).with_context(|| "--qs-to")?);
+    }
+    if recipe.lines.is_empty() && recipe.qs_to_g.is_none() {
+        bail!(
+            "no ingredients: give id=AMOUNT items (e.g. water=900g citric_acid=10g) or --project FILE"
+        );
+    }
+    if let Some(t) = args.temp {
+        conditions.temp_c = t;
+    }
+    if let Some(a) = args.activity {
+        conditions.activity = match a {
+            Activity::Davies => ActivityModel::Davies,
+            Activity::Ideal => ActivityModel::Ideal,
+        };
+    }
+    saltwise_chem::report::check_temperature(conditions.temp_c)?;
+    Ok(Resolved {
+        library,
+        recipe,
+        conditions,
+    })
+}
+
+/// Splits `id=AMOUNT`.
+pub fn parse_item(item: &str) -> Result<(String, Amount)> {
+    let (id, amount) = item
+        .split_once('=')
+        .ok_or_else(|| anyhow!("'{item}' is not id=AMOUNT (e.g. citric_acid=12.5g)"))?;
+    let amount = Amount::parse(amount).map_err(|e| anyhow!("{id}: {e}"))?;
+    check_amount(id, amount.value)?;
+    Ok((id.trim().to_owned(), amount))
+}
+
+/// A mass such as `1000g` or `1.2kg`, in grams.
+pub fn mass_g(text: &str) -> Result<f64> {
+    let a = Amount::parse(text).map_err(|e| anyhow!(e))?;
+    check_amount("mass", a.value)?;
+    Ok(match a.unit {
+        Unit::Gram => a.value,
+        Unit::Kilogram => a.value * 1e3,
+        Unit::Milligram => a.value * 1e-3,
+        Unit::Mole | Unit::Percent => bail!("'{text}' is not a mass; use g, kg or mg"),
+    })
+}
+
+fn check_amount(id: &str, v: f64) -> Result<()> {
+    if !v.is_finite() {
+        bail!("amount of {id}: {v} is not a finite number; amounts are finite numbers, 0 or more");
+    }
+    if v < 0.0 {
+        bail!("amount of {id}: {v} is negative; amounts are 0 or more");
+    }
+    Ok(())
+}
+
+/// Parses `id=FROM..TO` with units into (id, from_g, to_g).
+pub fn parse_dose_range(text: &str, library: &Library) -> Result<(String, f64, f64)> {
+    let (id, range) = text.split_once('=').ok_or_else(|| {
+        anyhow!("--dose '{text}' is not id=FROM..TO (e.g. sodium_hydroxide_50=0..20g)")
+    })?;
+    let id = id.trim();
+    let entry = library.entry(id).ok_or_else(|| {
+        let s = library.suggest(id);
+        if s.is_empty() {
+            anyhow!("unknown ingredient '{id}'")
+        } else {
+            anyhow!("unknown ingredient '{id}'; did you mean {}?", s.join(", "))
+        }
+    })?;
+    let (from, to) = range
+        .split_once("..")
+        .ok_or_else(|| anyhow!("--dose range '{range}' is not FROM..TO (e.g. 0..20g)"))?;
+    let to_amount = Amount::parse(to).map_err(|e| anyhow!("--dose end: {e}"))?;
+    if to_amount.unit == Unit::Percent {
+        bail!("--dose: use g, kg, mg or mol for the dose range");
+    }
+    let from_amount = match Amount::parse(from) {
+        Ok(a) => a,
+        Err(_) => Amount {
+            value: from
+                .trim()
+                .parse()
+                .map_err(|_| anyhow!("--dose start '{from}' is not a number"))?,
+            unit: to_amount.unit,
+        },
+    };
+    check_amount(id, from_amount.value)?;
+    check_amount(id, to_amount.value)?;
+    let g = |a: Amount| {
+        entry
+            .grams(a)
+            .ok_or_else(|| anyhow!("--dose: use g, kg, mg or mol"))
+    };
+    let (from_g, to_g) = (g(from_amount)?, g(to_amount)?);
+    if to_g <= from_g {
+        bail!("--dose range {from}..{to} is empty: the end must be above the start");
+    }
+    Ok((id.to_owned(), from_g, to_g))
+}

@@ -1,0 +1,274 @@
+//! The four commands: solve, then print text, JSON or CSV.
+
+use std::io::Write;
+use std::process::ExitCode;
+
+use anyhow::{Context, Result};
+use saltwise_chem::curve::Doser;
+use saltwise_chem::explain::explain;
+use saltwise_chem::hazard::cautions;
+use saltwise_chem::library::{Release, form_names};
+use saltwise_chem::report::{Report, evaluate_with};
+use saltwise_chem::{Constants, Library};
+use serde_json::{Value, json};
+
+use crate::args::{CurveArgs, DoseArgs, LibraryArgs, RecipeArgs};
+use crate::input::{self, Resolved};
+
+fn solve(args: &RecipeArgs) -> Result<(Resolved, Constants, Report)> {
+    let r = input::resolve(args)?;
+    let constants = Constants::new(&r.library, r.conditions);
+    let report = evaluate_with(&r.library, &constants, &r.recipe)?;
+    Ok((r, constants, report))
+}
+
+fn species_json(library: &Library, report: &Report) -> Vec<Value> {
+    let mut out = Vec::new();
+    for st in &report.systems {
+        let s = &library.systems()[st.system];
+        let names = form_names(s);
+        for (j, f) in st.fractions.iter().enumerate() {
+            out.push(json!({
+                "system": s.id,
+                "form": j,
+                "name": names[j],
+                "charge": st.charges[j],
+                "molality": st.total * f,
+                "fraction": f,
+            }));
+        }
+    }
+    out
+}
+
+fn print_stdout(text: &str) -> Result<()> {
+    let mut out = std::io::stdout().lock();
+    out.write_all(text.as_bytes())
+        .context("writing to stdout")?;
+    Ok(())
+}
+
+/// `saltwise-cli ph`.
+pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
+    let (r, constants, report) = solve(args)?;
+    let lib = &r.library;
+    let s = &report.solution;
+    let effects = explain(lib, &constants, &report.batch);
+    let warn = cautions(lib, &report.batch, Some(s));
+    if args.json {
+        let v = json!({
+            "ph": s.ph,
+            "p_h_conc": s.p_h_conc,
+            "ionic_strength": s.ionic_strength,
+            "buffer_capacity": s.buffer_capacity,
+            "temperature_c": r.conditions.temp_c,
+            "activity": r.conditions.activity.name(),
+            "water_kg": report.batch.totals.water_kg,
+            "batch_mass_g": report.batch.total_mass_g,
+            "converged": s.converged(),
+            "species": species_json(lib, &report),
+            "ingredients": report.batch.lines.iter().zip(&effects).enumerate().map(|(i, (l, e))| json!({
+                "id": e.ingredient,
+                "mass_g": l.mass_g,
+                "molality": report.batch.line_molality(i),
+                "effect": e.effect.words(),
+                "reason": e.summary,
+            })).collect::<Vec<_>>(),
+            "warnings": report.warnings,
+            "cautions": warn.iter().map(|c| json!({"title": c.title, "text": c.text})).collect::<Vec<_>>(),
+        });
+        print_stdout(&format!("{}\n", serde_json::to_string_pretty(&v)?))?;
+        return Ok(ExitCode::SUCCESS);
+    }
+    let mut t = String::new();
+    t += &format!("pH {:.3}   (as a meter reads it, −log a(H+))\n", s.ph);
+    t += &format!("p[H] {:.3}   (−log of the H+ molality)\n", s.p_h_conc);
+    t += &format!(
+        "ionic strength {:.4} mol/kg   buffer capacity {:.4} mol/kg per pH\n",
+        s.ionic_strength, s.buffer_capacity
+    );
+    t += &format!(
+        "{:.1} °C, {} activities; {:.4} kg water in a {:.2} g batch\n",
+        r.conditions.temp_c,
+        r.conditions.activity.name(),
+        report.batch.totals.water_kg,
+        report.batch.total_mass_g
+    );
+    t += "\ningredients\n";
+    for (i, (l, e)) in report.batch.lines.iter().zip(&effects).enumerate() {
+        t += &format!(
+            "  {:<34} {:>10.4} g {:>10.5} mol/kg  {}: {}\n",
+            e.ingredient,
+            l.mass_g,
+            report.batch.line_molality(i),
+            e.effect.words(),
+            e.summary
+        );
+    }
+    if report.batch.qs_water_g > 0.0 {
+        t += &format!(
+            "  {:<34} {:>10.4} g  (q.s.)\n",
+            "water", report.batch.qs_water_g
+        );
+    }
+    t += "\nspecies\n";
+    for st in &report.systems {
+        let sys = &lib.systems()[st.system];
+        let names = form_names(sys);
+        for (j, f) in st.fractions.iter().enumerate() {
+            t += &format!(
+                "  {:<14} {:<30} {:>+3}  {:>12.4e} mol/kg  {:>7.4}\n",
+                sys.id,
+                names[j],
+                st.charges[j],
+                st.total * f,
+                f
+            );
+        }
+    }
+    for w in &report.warnings {
+        t += &format!("\nwarning: {w}\n");
+    }
+    if !warn.is_empty() {
+        t += "\ncautions\n";
+        for c in &warn {
+            t += &format!("  {}: {}\n", c.title, c.text);
+        }
+    }
+    print_stdout(&t)?;
+    Ok(ExitCode::SUCCESS)
+}
+
+/// `saltwise-cli curve`.
+pub fn curve(args: &CurveArgs) -> Result<ExitCode> {
+    let (r, constants, report) = solve(&args.recipe)?;
+    let (id, from_g, to_g) = input::parse_dose_range(&args.dose, &r.library)?;
+    if !(2..=100_000).contains(&args.points) {
+        anyhow::bail!("--points {} is outside 2–100000", args.points);
+    }
+    let doser = Doser::new(&r.library, &constants, &report.batch, &id)?;
+    let c = doser.curve_between(from_g, to_g, args.points);
+    if args.csv {
+        let mut w = csv::Writer::from_writer(Vec::new());
+        w.write_record(["dose_g", "ph", "buffer_capacity"])?;
+        for p in &c.points {
+            w.write_record([
+                p.dose_g.to_string(),
+                p.ph.to_string(),
+                p.buffer_capacity.to_string(),
+            ])?;
+        }
+        let bytes = w.into_inner().context("writing CSV")?;
+        print_stdout(&String::from_utf8_lossy(&bytes))?;
+    } else if args.recipe.json {
+        let v = json!({
+            "adjuster": id,
+            "points": c.points.iter().map(|p| json!({"dose_g": p.dose_g, "ph": p.ph, "buffer_capacity": p.buffer_capacity})).collect::<Vec<_>>(),
+            "equivalence_points": c.equivalence.iter().map(|e| json!({"dose_g": e.dose_g, "ph": e.ph})).collect::<Vec<_>>(),
+        });
+        print_stdout(&format!("{}\n", serde_json::to_string_pretty(&v)?))?;
+    } else {
+        let mut t = format!("{:>12} {:>8} {:>14}\n", "dose_g", "ph", "buffer_cap");
+        for p in &c.points {
+            t += &format!(
+                "{:>12.4} {:>8.3} {:>14.5e}\n",
+                p.dose_g, p.ph, p.buffer_capacity
+            );
+        }
+        for e in &c.equivalence {
+            t += &format!("equivalence point near {:.4} g, pH {:.2}\n", e.dose_g, e.ph);
+        }
+        print_stdout(&t)?;
+    }
+    Ok(ExitCode::SUCCESS)
+}
+
+/// `saltwise-cli dose`.
+pub fn dose(args: &DoseArgs) -> Result<ExitCode> {
+    let (r, constants, report) = solve(&args.recipe)?;
+    let doser = Doser::new(&r.library, &constants, &report.batch, &args.adjuster)?;
+    let d = doser.to_target(args.target_ph)?;
+    if args.recipe.json {
+        let v = json!({
+            "adjuster": args.adjuster,
+            "target_ph": args.target_ph,
+            "start_ph": report.solution.ph,
+            "amount_g": d.amount_g,
+            "percent_of_batch": d.percent_of_batch,
+            "ph_reached": d.ph_reached,
+        });
+        print_stdout(&format!("{}\n", serde_json::to_string_pretty(&v)?))?;
+    } else {
+        print_stdout(&format!(
+            "add {:.4} g of {} ({:.4} % of the {:.2} g batch): pH {:.3} → {:.3}\n",
+            d.amount_g,
+            args.adjuster,
+            d.percent_of_batch,
+            report.batch.total_mass_g,
+            report.solution.ph,
+            d.ph_reached
+        ))?;
+    }
+    Ok(ExitCode::SUCCESS)
+}
+
+/// `saltwise-cli library`.
+pub fn library(args: &LibraryArgs) -> Result<ExitCode> {
+    let lib = Library::built_in()?;
+    if args.json {
+        let v = json!({
+            "ingredients": lib.entries().iter().map(|e| json!({
+                "id": e.ingredient.id,
+                "name": e.ingredient.name,
+                "formula": e.ingredient.formula,
+                "molar_mass": e.molar_mass_g_per_mol,
+                "assay": e.ingredient.assay,
+                "releases": e.ingredient.releases.iter().map(|r| match r {
+                    Release::Ion { id, count } => json!({"ion": id, "count": count}),
+                    Release::System { id, count, form } => json!({"system": id, "count": count, "form": form}),
+                }).collect::<Vec<_>>(),
+                "hazards": e.ingredient.hazards.iter().map(|h| format!("{h:?}")).collect::<Vec<_>>(),
+                "note": e.ingredient.note,
+            })).collect::<Vec<_>>(),
+            "systems": lib.systems().iter().map(|s| json!({
+                "id": s.id,
+                "name": s.name,
+                "charge_of_fully_protonated": s.charge_of_fully_protonated,
+                "forms": form_names(s),
+                "pka": s.pka,
+                "dh_kj_mol": s.dh_kj_mol,
+                "dcp_j_mol_k": s.dcp_j_mol_k,
+                "pka_ionic_strength": s.pka_ionic_strength,
+                "source": s.source,
+            })).collect::<Vec<_>>(),
+            "ions": lib.ions().iter().map(|i| json!({"id": i.id, "symbol": i.symbol, "charge": i.charge})).collect::<Vec<_>>(),
+        });
+        print_stdout(&format!("{}\n", serde_json::to_string_pretty(&v)?))?;
+        return Ok(ExitCode::SUCCESS);
+    }
+    let mut t = String::from("ingredients\n");
+    for e in lib.entries() {
+        t += &format!(
+            "  {:<36} {:<22} {:>9.3} g/mol  assay {:>5.1} %  {}\n",
+            e.ingredient.id,
+            e.ingredient.formula,
+            e.molar_mass_g_per_mol,
+            e.ingredient.assay * 100.0,
+            e.ingredient.name
+        );
+    }
+    t += "\nsystems (pKa at 25 °C; ΔH° kJ/mol)\n";
+    for s in lib.systems() {
+        let pka: Vec<String> = s.pka.iter().map(|p| format!("{p}")).collect();
+        let dh: Vec<String> = s.dh_kj_mol.iter().map(|p| format!("{p}")).collect();
+        t += &format!(
+            "  {:<18} pKa {:<28} ΔH° {:<24} {}\n",
+            s.id,
+            pka.join(", "),
+            dh.join(", "),
+            s.source
+        );
+    }
+    print_stdout(&t)?;
+    Ok(ExitCode::SUCCESS)
+}
