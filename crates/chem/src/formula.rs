@@ -4,44 +4,45 @@ use std::collections::BTreeMap;
 
 use crate::error::FormulaError;
 
-/// Standard atomic weights in g/mol: IUPAC/CIAAW abridged values (2021), five significant figures.
+/// Standard atomic weights in g/mol: the IUPAC 2005 values (Wieser, Pure Appl. Chem. 78 (2006) 2051; Zn as revised 2007),
+/// as handbooks print them; each lies inside the CIAAW 2021 interval for its element.
 const ATOMIC_WEIGHTS: &[(&str, f64)] = &[
-    ("H", 1.008),
-    ("Li", 6.94),
-    ("B", 10.81),
-    ("C", 12.011),
-    ("N", 14.007),
-    ("O", 15.999),
-    ("F", 18.998),
-    ("Na", 22.990),
-    ("Mg", 24.305),
-    ("Al", 26.982),
-    ("Si", 28.085),
-    ("P", 30.974),
-    ("S", 32.06),
-    ("Cl", 35.45),
-    ("K", 39.098),
+    ("H", 1.007_94),
+    ("Li", 6.941),
+    ("B", 10.811),
+    ("C", 12.010_7),
+    ("N", 14.006_7),
+    ("O", 15.999_4),
+    ("F", 18.998_403),
+    ("Na", 22.989_770),
+    ("Mg", 24.305_0),
+    ("Al", 26.981_538),
+    ("Si", 28.085_5),
+    ("P", 30.973_761),
+    ("S", 32.065),
+    ("Cl", 35.453),
+    ("K", 39.098_3),
     ("Ca", 40.078),
     ("Ti", 47.867),
-    ("Cr", 51.996),
-    ("Mn", 54.938),
+    ("Cr", 51.996_1),
+    ("Mn", 54.938_049),
     ("Fe", 55.845),
-    ("Co", 58.933),
-    ("Ni", 58.693),
+    ("Co", 58.933_200),
+    ("Ni", 58.693_4),
     ("Cu", 63.546),
     ("Zn", 65.38),
-    ("Se", 78.971),
+    ("Se", 78.96),
     ("Br", 79.904),
     ("Sr", 87.62),
-    ("Mo", 95.95),
-    ("Ag", 107.87),
-    ("Sn", 118.71),
-    ("I", 126.90),
-    ("Ba", 137.33),
+    ("Mo", 95.94),
+    ("Ag", 107.868_2),
+    ("Sn", 118.710),
+    ("I", 126.904_47),
+    ("Ba", 137.327),
 ];
 
 /// Molar mass of water in g/mol, from the same atomic weights.
-pub const WATER_MOLAR_MASS_G_PER_MOL: f64 = 2.0 * 1.008 + 15.999;
+pub const WATER_MOLAR_MASS_G_PER_MOL: f64 = 2.0 * 1.007_94 + 15.999_4;
 
 /// Deepest bracket nesting a formula may use.
 const MAX_DEPTH: usize = 8;

@@ -22,6 +22,8 @@ pub enum Command {
     Dose(DoseArgs),
     /// The ingredients, systems and ions of the library, with constants and sources.
     Library(LibraryArgs),
+    /// Properties of water at a temperature: pKw (IAPWS), density, dielectric constant, Davies A.
+    Water(WaterArgs),
 }
 
 /// The activity model named on the command line.
@@ -83,6 +85,16 @@ pub struct DoseArgs {
 
 #[derive(Debug, Args)]
 pub struct LibraryArgs {
+    /// Print JSON instead of text.
+    #[arg(long)]
+    pub json: bool,
+}
+
+#[derive(Debug, Args)]
+pub struct WaterArgs {
+    /// Temperature in °C (0–100).
+    #[arg(long, value_name = "C", default_value_t = 25.0)]
+    pub temp: f64,
     /// Print JSON instead of text.
     #[arg(long)]
     pub json: bool,

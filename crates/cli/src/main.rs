@@ -27,5 +27,6 @@ fn run(cli: args::Cli) -> anyhow::Result<ExitCode> {
         args::Command::Curve(a) => output::curve(&a),
         args::Command::Dose(a) => output::dose(&a),
         args::Command::Library(a) => output::library(&a),
+        args::Command::Water(a) => output::water(&a),
     }
 }

@@ -12,7 +12,7 @@ use saltwise_chem::report::{Report, evaluate_with};
 use saltwise_chem::{Constants, Library};
 use serde_json::{Value, json};
 
-use crate::args::{CurveArgs, DoseArgs, LibraryArgs, RecipeArgs};
+use crate::args::{CurveArgs, DoseArgs, LibraryArgs, RecipeArgs, WaterArgs};
 use crate::input::{self, Resolved};
 
 fn solve(args: &RecipeArgs) -> Result<(Resolved, Constants, Report)> {
@@ -270,5 +270,30 @@ pub fn library(args: &LibraryArgs) -> Result<ExitCode> {
         );
     }
     print_stdout(&t)?;
+    Ok(ExitCode::SUCCESS)
+}
+
+/// `saltwise-cli water`.
+pub fn water(args: &WaterArgs) -> Result<ExitCode> {
+    use saltwise_chem::solver::{activity, water};
+    let t = args.temp;
+    if !t.is_finite() || !(0.0..=100.0).contains(&t) {
+        anyhow::bail!("--temp {t} °C is outside 0–100 °C, the range of the water model");
+    }
+    let (pkw, rho, eps, a) = (
+        water::pkw(t),
+        water::density_kg_m3(t),
+        water::dielectric_constant(t),
+        activity::debye_huckel_a(t),
+    );
+    if args.json {
+        let v = json!({"temperature_c": t, "pkw": pkw, "density_kg_m3": rho, "dielectric_constant": eps, "davies_a": a});
+        print_stdout(&format!("{}\n", serde_json::to_string_pretty(&v)?))?;
+    } else {
+        print_stdout(&format!(
+            "{t} °C: pKw {pkw:.4} (IAPWS R11-07), neutral pH {:.4}, density {rho:.3} kg/m³, dielectric constant {eps:.3}, Davies A {a:.4}\n",
+            pkw / 2.0
+        ))?;
+    }
     Ok(ExitCode::SUCCESS)
 }
