@@ -1,7 +1,6 @@
 //! The built-in ingredient library: it loads, carries every required ingredient, its molar masses
 //! agree with handbook values, every ingredient is neutral and every system names its source.
 
-
 use saltwise_chem::Library;
 use saltwise_chem::library::{ResolvedRelease, form_names};
 

@@ -103,8 +103,12 @@ impl<'a> ChargeBalance<'a> {
         let e = self.evaluate(ph, &cond);
         // Proton balance: [H⁺] − [OH⁻] − Σ C⟨j⟩ equals the protons released in excess of the reference.
         let proton_lhs = e.h_molal - e.oh_molal - e.protons_removed;
-        let proton_scale =
-            e.h_molal + e.oh_molal + e.protons_removed.abs() + self.composition.proton_excess.abs();
+        // Its scale includes every charged species: the spectators' rounding bounds both balances.
+        let proton_scale = (e.h_molal
+            + e.oh_molal
+            + e.protons_removed.abs()
+            + self.composition.proton_excess.abs())
+        .max(e.scale);
         Solution {
             ph,
             p_h_conc: -e.h_molal.log10(),

@@ -172,7 +172,7 @@ pub struct Solution {
     pub oh_molal: f64,
     /// Charge-balance residual relative to the sum of charge magnitudes.
     pub charge_residual: f64,
-    /// Proton-balance residual relative to the sum of proton magnitudes.
+    /// Proton-balance residual relative to the larger of its own terms and the charge-balance scale.
     pub proton_residual: f64,
     /// Newton iterations in total.
     pub iterations: u32,
