@@ -24,7 +24,7 @@ pub enum Unit {
     #[serde(rename = "mol")]
     Mole,
     /// Percent by mass of the whole batch (% w/w).
-    #[serde(rename = "%")]
+    #[serde(rename = "percent")]
     Percent,
 }
 
@@ -71,25 +71,30 @@ impl Amount {
     /// Parses `20g`, `1.5 kg`, `250mg`, `0.1mol` or `2%`.
     pub fn parse(text: &str) -> Result<Self, String> {
         let t = text.trim();
-        let split = t
-            .find(|c: char| {
-                !(c.is_ascii_digit() || c == '.' || c == '-' || c == '+' || c == 'e' || c == 'E')
-            })
-            .unwrap_or(t.len());
-        // 'e' may belong to a unit-less number only when followed by digits; units never start with e.
-        let (num, unit) = t.split_at(split);
-        let unit = match unit.trim() {
-            "g" => Unit::Gram,
-            "kg" => Unit::Kilogram,
-            "mg" => Unit::Milligram,
-            "mol" => Unit::Mole,
-            "%" => Unit::Percent,
-            "" => {
-                return Err(format!(
-                    "'{t}' has no unit; write g, kg, mg, mol or % (e.g. 20g)"
-                ));
-            }
-            other => return Err(format!("'{other}' is not a unit; use g, kg, mg, mol or %")),
+        const UNITS: [(&str, Unit); 5] = [
+            ("mol", Unit::Mole),
+            ("kg", Unit::Kilogram),
+            ("mg", Unit::Milligram),
+            ("g", Unit::Gram),
+            ("%", Unit::Percent),
+        ];
+        let Some((num, unit)) = UNITS
+            .iter()
+            .find_map(|(sym, u)| t.strip_suffix(sym).map(|n| (n.trim(), *u)))
+        else {
+            let tail: String = t
+                .chars()
+                .rev()
+                .take_while(|c| c.is_alphabetic())
+                .collect::<Vec<_>>()
+                .into_iter()
+                .rev()
+                .collect();
+            return Err(if tail.is_empty() {
+                format!("'{t}' has no unit; write g, kg, mg, mol or % (e.g. 20g)")
+            } else {
+                format!("'{tail}' is not a unit; use g, kg, mg, mol or %")
+            });
         };
         let value: f64 = num
             .parse()
