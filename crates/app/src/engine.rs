@@ -6,23 +6,15 @@ use saltwise_chem::report::{self, Report};
 use saltwise_chem::solver::{self, Conditions, Constants};
 use saltwise_chem::{Library, Recipe};
 
-use crate::adapter;
+use saltwise_chem::curve::Doser;
+pub use saltwise_chem::curve::{CurvePoint, DoseResult, EquivalencePoint};
+use saltwise_chem::explain::{self, IngredientEffect};
+use saltwise_chem::hazard::{self, Caution};
 
 /// Points on the dose curve.
 const CURVE_POINTS: usize = 161;
 /// pH step of the species chart.
 const SPECIES_PH_STEP: f64 = 0.05;
-
-/// One point of the dose curve.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct CurvePoint {
-    /// Adjuster added, g (as supplied).
-    pub dose_g: f64,
-    /// pH reached.
-    pub ph: f64,
-    /// Buffer capacity there, mol/kg per pH unit.
-    pub buffer_capacity: f64,
-}
 
 /// The dose curve of one adjuster on the current recipe.
 #[derive(Debug, Clone, PartialEq)]
@@ -33,10 +25,10 @@ pub struct CurveData {
     pub adjuster_name: String,
     /// The points, from no dose to the largest.
     pub points: Vec<CurvePoint>,
-    /// Equivalence points as (dose g, pH).
-    pub equivalence: Vec<[f64; 2]>,
-    /// Dose to the target pH, g, or why there is none (when a target is set).
-    pub to_target: Option<Result<f64, String>>,
+    /// Equivalence points found on the curve.
+    pub equivalence: Vec<EquivalencePoint>,
+    /// Dose to the target pH, or why there is none (when a target is set).
+    pub to_target: Option<Result<DoseResult, String>>,
 }
 
 /// Fractions of every form of one system against pH, at the recipe's ionic strength.
@@ -91,6 +83,8 @@ pub struct Engine {
     library_key: Option<LibraryData>,
     constants: Option<Constants>,
     report: Option<(ReportKey, Result<Report, String>)>,
+    effects: Vec<Option<IngredientEffect>>,
+    cautions: Vec<Caution>,
     curve: Option<(CurveKey, Result<CurveData, String>)>,
     species: Option<(SpeciesKey, Option<SpeciesData>)>,
     solves: u64,
@@ -112,6 +106,8 @@ impl Engine {
             library_key: None,
             constants: None,
             report: None,
+            effects: Vec::new(),
+            cautions: Vec::new(),
             curve: None,
             species: None,
             solves: 0,
@@ -131,6 +127,16 @@ impl Engine {
     /// The solved report, if the recipe solved.
     pub fn solved(&self) -> Option<&Report> {
         self.report().and_then(|r| r.as_ref().ok())
+    }
+
+    /// What the ingredient of each recipe line does to pH (`None` for an unknown ingredient).
+    pub fn effects(&self) -> &[Option<IngredientEffect>] {
+        &self.effects
+    }
+
+    /// Cautions for the batch and its pH.
+    pub fn cautions(&self) -> &[Caution] {
+        &self.cautions
     }
 
     /// The dose curve of the chosen adjuster, or why there is none.
@@ -225,6 +231,23 @@ impl Engine {
                     }
                 }
             };
+            self.effects.clear();
+            self.cautions.clear();
+            if let Some(constants) = self.constants.as_ref() {
+                self.effects = key
+                    .recipe
+                    .lines
+                    .iter()
+                    .map(|l| {
+                        library
+                            .entry_index(&l.ingredient)
+                            .map(|e| explain::explain_ingredient(library, constants, e))
+                    })
+                    .collect();
+            }
+            if let Ok(report) = &result {
+                self.cautions = hazard::cautions(library, &report.batch, Some(&report.solution));
+            }
             self.report = Some((key.clone(), result));
         }
         let ck = curve_key(&key, project);
@@ -232,15 +255,7 @@ impl Engine {
             self.solves += 1;
             changed = true;
             let data = match (self.report(), self.constants.as_ref()) {
-                (Some(Ok(report)), Some(constants)) => adapter::dose_curve(
-                    library,
-                    constants,
-                    report,
-                    &ck.adjuster,
-                    ck.dose_max_g,
-                    ck.target_ph,
-                    CURVE_POINTS,
-                ),
+                (Some(Ok(report)), Some(constants)) => curve_data(library, constants, report, &ck),
                 (Some(Err(e)), _) => Err(e.clone()),
                 _ => Err("the recipe has not been solved".into()),
             };
@@ -263,6 +278,33 @@ impl Engine {
         }
         changed
     }
+}
+
+fn curve_data(
+    library: &Library,
+    constants: &Constants,
+    report: &Report,
+    key: &CurveKey,
+) -> Result<CurveData, String> {
+    if !(key.dose_max_g.is_finite() && key.dose_max_g > 0.0) {
+        return Err(format!("largest dose {} g must be above 0", key.dose_max_g));
+    }
+    let doser =
+        Doser::new(library, constants, &report.batch, &key.adjuster).map_err(|e| e.to_string())?;
+    let curve = doser.curve(key.dose_max_g, CURVE_POINTS);
+    let to_target = key
+        .target_ph
+        .map(|t| doser.to_target(t).map_err(|e| e.to_string()));
+    let adjuster_name = library
+        .entry(&key.adjuster)
+        .map_or_else(|| key.adjuster.clone(), |e| e.ingredient.name.clone());
+    Ok(CurveData {
+        adjuster: curve.adjuster,
+        adjuster_name,
+        points: curve.points,
+        equivalence: curve.equivalence,
+        to_target,
+    })
 }
 
 fn report_key(project: &Project) -> ReportKey {

@@ -6,7 +6,6 @@
 //! [`Command`] handled in one place (`command.rs`); the saved [`saltwise_chem::project::Project`]
 //! is kept apart from runtime state (solved results, undo history, selection).
 
-mod adapter;
 mod app;
 mod command;
 mod config;

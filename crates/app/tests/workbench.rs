@@ -203,3 +203,64 @@ fn the_demo_project_opens_without_a_panic() {
     h.run();
     assert!(h.state().engine().report().is_some());
 }
+
+#[test]
+fn the_degreaser_demo_file_opens_solves_and_finds_its_citric_dose() {
+    let dir = tempfile::tempdir().unwrap();
+    let file =
+        Path::new(env!("CARGO_MANIFEST_DIR")).join("../../assets/demo/tidewater-degreaser.ron");
+    let mut h = harness(Project::default(), dir.path());
+    h.state_mut().queue(Command::OpenPath(file));
+    h.run();
+    assert!(
+        h.state().project().name.starts_with("Tidewater"),
+        "{:?}",
+        h.state().status_text()
+    );
+    let report = h.state().engine().solved().unwrap();
+    assert!(report.solution.ph > 11.5, "starts above its target");
+    let curve = h.state().engine().curve().unwrap().as_ref().unwrap();
+    let dose = curve.to_target.as_ref().unwrap().as_ref().unwrap();
+    assert!((dose.ph_reached - 11.5).abs() < 1e-6);
+}
+
+#[test]
+fn dragging_an_amount_updates_the_ph_readout_in_the_same_frame() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(citric_project(), dir.path());
+    let start = h.get_by_label("Amount of line 2").rect().center();
+    h.drag_at(start);
+    h.step();
+    for dx in [20.0, 60.0, 120.0] {
+        h.hover_at(start + egui::vec2(dx, 0.0));
+        h.step();
+        let project = h.state().project().clone();
+        assert_ne!(
+            project.recipe.lines[1].amount.value, 10.0,
+            "the drag moved the amount"
+        );
+        // One frame only: the readout drawn in it already shows the new recipe's pH.
+        h.get_by_label(&format!("pH {:.2}", expected_ph(&project)));
+    }
+    h.drop_at(start + egui::vec2(120.0, 0.0));
+    h.run();
+    assert!(h.state().can_undo(), "the whole drag is one undo step");
+    h.state_mut().queue(Command::Undo);
+    h.run();
+    assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
+}
+
+#[test]
+fn zoom_commands_change_the_zoom_and_remember_it() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(citric_project(), dir.path());
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Plus);
+    h.run();
+    let zoom = h.state().user_config().zoom;
+    assert!(zoom > 1.0);
+    let (saved, _) = ConfigStore::at(dir.path()).load();
+    assert!((saved.zoom - zoom).abs() < 1e-6);
+    h.state_mut().queue(Command::ZoomOut);
+    h.run();
+    assert!((h.state().user_config().zoom - 1.0).abs() < 1e-4);
+}

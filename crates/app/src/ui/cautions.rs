@@ -4,27 +4,28 @@
 use egui::{RichText, Ui};
 use saltwise_chem::project::Project;
 
-use crate::adapter;
 use crate::engine::Engine;
+use saltwise_chem::hazard::{Caution, DEFER};
+use saltwise_chem::library::Hazard;
+
+/// What the predictions leave out.
+const NOT_PLAIN_WATER: &str = "Predictions are for plain aqueous systems: co-solvents, surfactant micelles and suspended solids shift real pH.";
 
 /// Draws the cautions area (always visible, short when there is nothing to say).
 pub fn cautions_ui(ui: &mut Ui, project: &Project, engine: &Engine) {
     let Ok(library) = engine.library() else {
         return;
     };
-    let entries: Vec<usize> = project
-        .recipe
-        .lines
-        .iter()
-        .filter(|l| l.enabled)
-        .filter_map(|l| library.entry_index(&l.ingredient))
-        .chain(library.entry_index(&project.settings.adjuster))
-        .collect();
-    let cautions = adapter::cautions(library, engine.solved(), &entries);
+    let mut cautions: Vec<Caution> = engine.cautions().to_vec();
+    if let Some(c) = adjuster_caution(project, library) {
+        cautions.push(c);
+    }
     egui::Frame::group(ui.style()).show(ui, |ui| {
         ui.set_width(ui.available_width());
         if cautions.is_empty() {
-            ui.label(RichText::new("Cautions: none flagged for these ingredients and this pH.").weak());
+            ui.label(
+                RichText::new("Cautions: none flagged for these ingredients and this pH.").weak(),
+            );
         } else {
             ui.label(RichText::new("Cautions").strong().color(super::WARN));
             for c in &cautions {
@@ -35,11 +36,35 @@ pub fn cautions_ui(ui: &mut Ui, project: &Project, engine: &Engine) {
             }
         }
         ui.label(
-            RichText::new(
-                "Predictions are for plain aqueous systems. Follow the supplier's safety data sheet, local regulations and licensed practice for handling and labelling.",
-            )
+            RichText::new(if cautions.iter().any(|c| c.text.contains(DEFER)) {
+                NOT_PLAIN_WATER.to_owned()
+            } else {
+                format!("{DEFER} {NOT_PLAIN_WATER}")
+            })
             .small()
             .weak(),
         );
     });
+}
+
+/// A caution for the chosen pH adjuster as supplied, which is handled even before it is dosed.
+fn adjuster_caution(project: &Project, library: &saltwise_chem::Library) -> Option<Caution> {
+    let e = library.entry(&project.settings.adjuster)?;
+    let h = &e.ingredient.hazards;
+    let kind = if h.contains(&Hazard::StrongAlkali) {
+        "a strong alkali"
+    } else if h.contains(&Hazard::StrongAcid) {
+        "a strong acid"
+    } else if h.contains(&Hazard::Corrosive) {
+        "corrosive"
+    } else {
+        return None;
+    };
+    Some(Caution {
+        title: "pH adjuster".into(),
+        text: format!(
+            "{} is {kind} as supplied: it burns skin and eyes. Dose it slowly into the stirred batch with eye and skin protection.",
+            e.ingredient.name
+        ),
+    })
 }

@@ -11,8 +11,10 @@ use super::sig;
 use crate::app::PanelState;
 use crate::engine::Engine;
 
-/// Height of the pH chart, points.
-const CHART_HEIGHT: f32 = 300.0;
+/// Height of a main chart: what the window leaves below the readout, within limits.
+pub fn chart_height(ui: &Ui) -> f32 {
+    (ui.ctx().content_rect().height() - 600.0).clamp(240.0, 560.0)
+}
 /// Height of the buffer-capacity chart, points.
 const BUFFER_HEIGHT: f32 = 140.0;
 
@@ -53,12 +55,13 @@ pub fn dose_curve_ui(
         None => return,
     };
     match (&curve.to_target, settings.target_ph) {
-        (Some(Ok(g)), Some(t)) => {
+        (Some(Ok(dose)), Some(t)) => {
             ui.label(
                 RichText::new(format!(
-                    "To reach pH {t:.2}: add {} g of {}",
-                    sig(*g, 4),
-                    curve.adjuster_name
+                    "To reach pH {t:.2}: add {} g of {} ({} % of the batch)",
+                    sig(dose.amount_g, 4),
+                    curve.adjuster_name,
+                    sig(dose.percent_of_batch, 3)
                 ))
                 .strong()
                 .color(super::TARGET),
@@ -77,17 +80,27 @@ pub fn dose_curve_ui(
     let target = settings.target_ph;
     let tolerance = settings.target_tolerance;
     let current = curve.points.first().map(|p| [p.dose_g, p.ph]);
-    let eq = curve.equivalence.clone();
+    let eq: Vec<[f64; 2]> = curve.equivalence.iter().map(|e| [e.dose_g, e.ph]).collect();
     let dose = curve
         .to_target
         .as_ref()
         .and_then(|r| r.as_ref().ok())
-        .copied();
+        .map(|d| d.amount_g)
+        .filter(|d| *d <= settings.dose_max_g);
+    let height = chart_height(ui);
+    // Put the legend in the bottom corner the curve leaves empty: right for a rising curve,
+    // left for a falling one.
+    let rising = curve.points.last().map(|p| p.ph) > curve.points.first().map(|p| p.ph);
+    let corner = if rising {
+        Corner::RightBottom
+    } else {
+        Corner::LeftBottom
+    };
     Plot::new("dose_plot")
-        .height(CHART_HEIGHT)
+        .height(height)
         .x_axis_label(x_label.clone())
         .y_axis_label("pH")
-        .legend(Legend::default().position(Corner::LeftTop))
+        .legend(Legend::default().position(corner))
         .link_axis(link, [true, false])
         .link_cursor(link, [true, false])
         .include_x(0.0)
@@ -137,7 +150,7 @@ pub fn dose_curve_ui(
         let list: Vec<String> = curve
             .equivalence
             .iter()
-            .map(|[d, ph]| format!("{} g (pH {ph:.2})", sig(*d, 3)))
+            .map(|e| format!("{} g (pH {:.2})", sig(e.dose_g, 3), e.ph))
             .collect();
         ui.label(format!("Equivalence points: {}", list.join(", ")));
     }

@@ -6,9 +6,9 @@ use saltwise_chem::project::Project;
 use saltwise_chem::{Amount, Library, RecipeLine, Unit};
 
 use super::{named_button, sig};
-use crate::adapter::{self, Effect};
 use crate::app::PanelState;
 use crate::engine::Engine;
+use saltwise_chem::explain::{Effect, IngredientEffect};
 
 /// Most matches the picker lists at once.
 const PICKER_ROWS: usize = 40;
@@ -62,7 +62,6 @@ pub fn recipe_panel_ui(
 
 fn lines_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, library: &Library) {
     let report = engine.solved();
-    let pkw = engine.pkw();
     let n = project.recipe.lines.len();
     if n == 0 {
         ui.label(
@@ -124,16 +123,10 @@ fn lines_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, library: &Libra
                 let line_mass = report.and_then(|r| r.batch.lines.get(i));
                 ui.label(line_mass.map_or("—".into(), |l| format!("{} g", sig(l.mass_g, 4))));
                 ui.label(report.map_or("—".into(), |r| sig(r.batch.line_molality(i), 3)));
-                match entry {
-                    Some(e) if line.enabled => {
-                        let (effect, reason) = adapter::line_effect(library, e, pkw);
-                        let color = match effect {
-                            Effect::Lowers => egui::Color32::from_rgb(0xc0, 0x50, 0x40),
-                            Effect::Raises => egui::Color32::from_rgb(0x3a, 0x6e, 0xc8),
-                            Effect::Neutral => ui.visuals().weak_text_color(),
-                        };
-                        ui.label(RichText::new(effect.words()).color(color))
-                            .on_hover_text(reason);
+                match engine.effects().get(i).and_then(Option::as_ref) {
+                    Some(effect) if line.enabled => {
+                        ui.label(effect_text(ui, effect.effect))
+                            .on_hover_text(ion_reasons(effect));
                     }
                     _ => {
                         ui.weak("off");
@@ -250,23 +243,48 @@ fn batch_ui(ui: &mut Ui, project: &mut Project, engine: &Engine) {
     }
 }
 
+fn effect_text(ui: &Ui, effect: Effect) -> RichText {
+    let (words, color) = match effect {
+        Effect::Acidifies => ("lowers pH", egui::Color32::from_rgb(0xc0, 0x50, 0x40)),
+        Effect::Basifies => ("raises pH", egui::Color32::from_rgb(0x3a, 0x6e, 0xc8)),
+        Effect::Neutral => ("no effect", ui.visuals().weak_text_color()),
+    };
+    RichText::new(words).color(color)
+}
+
+fn ion_reasons(effect: &IngredientEffect) -> String {
+    effect
+        .ions
+        .iter()
+        .map(|ion| format!("{}: {}", ion.label, ion.reason))
+        .collect::<Vec<_>>()
+        .join("\n")
+}
+
 fn reasons_ui(ui: &mut Ui, project: &Project, engine: &Engine, library: &Library) {
-    let pkw = engine.pkw();
     egui::CollapsingHeader::new("What each line does to pH")
         .default_open(true)
         .show(ui, |ui| {
             for (i, line) in project.recipe.lines.iter().enumerate() {
-                let Some(e) = library.entry_index(&line.ingredient) else {
+                let Some(effect) = engine.effects().get(i).and_then(Option::as_ref) else {
                     continue;
                 };
-                let (effect, reason) = adapter::line_effect(library, e, pkw);
-                let name = &library.entries()[e].ingredient.name;
-                let text = format!("{}. {name}: {} — {reason}", i + 1, effect.words());
-                if line.enabled {
-                    ui.label(text);
-                } else {
-                    ui.weak(format!("{text} (line off)"));
-                }
+                let name = library
+                    .entry(&line.ingredient)
+                    .map_or(line.ingredient.as_str(), |e| e.ingredient.name.as_str());
+                ui.horizontal_wrapped(|ui| {
+                    ui.spacing_mut().item_spacing.x = 4.0;
+                    let head = RichText::new(format!("{}. {name}:", i + 1)).strong();
+                    if line.enabled {
+                        ui.label(head);
+                        ui.label(effect_text(ui, effect.effect));
+                        ui.label(format!("— {}", effect.summary))
+                            .on_hover_text(ion_reasons(effect));
+                    } else {
+                        ui.label(head.weak());
+                        ui.weak(format!("(line off) {}", effect.summary));
+                    }
+                });
             }
         });
 }

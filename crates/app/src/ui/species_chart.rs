@@ -2,14 +2,12 @@
 //! ionic strength, the current pH, the dominant form, and the molality of each form.
 
 use egui::{Color32, RichText, Ui};
-use egui_plot::{Corner, Legend, Line, Plot, VLine};
+use egui_plot::{Line, Plot, VLine};
 use saltwise_chem::project::Settings;
 
 use super::sig;
 use crate::engine::Engine;
 
-/// Height of the chart, points.
-const CHART_HEIGHT: f32 = 300.0;
 /// Colours of the forms, in order.
 const PALETTE: [Color32; 7] = [
     Color32::from_rgb(0xc0, 0x50, 0x40),
@@ -74,10 +72,10 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
         .strong(),
     );
     Plot::new("species_plot")
-        .height(CHART_HEIGHT)
+        .height(super::dose_curve::chart_height(ui))
+        .x_grid_spacer(egui_plot::uniform_grid_spacer(|_| [1.0, 2.0, 4.0]))
         .x_axis_label("pH")
         .y_axis_label("fraction")
-        .legend(Legend::default().position(Corner::RightTop))
         .include_x(0.0)
         .include_x(14.0)
         .include_y(0.0)
@@ -107,7 +105,7 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
             );
         });
     ui.label(format!(
-        "At ionic strength {} mol/kg",
+        "Fractions at ionic strength {} mol/kg; colours as in the table, grey line at the recipe's pH.",
         sig(data.ionic_strength, 3)
     ));
     egui::Grid::new("species_table")
