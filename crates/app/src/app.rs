@@ -213,7 +213,7 @@ impl Workbench {
         egui::Panel::top("command_bar").show(ui, |ui| ui::top_bar::top_bar_ui(ui, self));
         egui::Panel::left("recipe_panel")
             .resizable(true)
-            .default_size(720.0)
+            .default_size((ctx.content_rect().width() * 0.48).clamp(480.0, 760.0))
             .min_size(480.0)
             .show(ui, |ui| {
                 ui::recipe_table::recipe_panel_ui(

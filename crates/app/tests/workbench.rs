@@ -264,3 +264,26 @@ fn zoom_commands_change_the_zoom_and_remember_it() {
     h.run();
     assert!((h.state().user_config().zoom - 1.0).abs() < 1e-4);
 }
+
+#[test]
+fn a_custom_weak_acid_from_the_form_joins_the_recipe_and_solves() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(citric_project(), dir.path());
+    h.get_by_label("Custom ingredient (a weak acid)").click();
+    h.run();
+    type_into(&mut h, "Name", "Marsh acid");
+    type_into(&mut h, "Formula", "C4H6O4");
+    type_into(&mut h, "pKa values", "4.2 5.6");
+    type_into(&mut h, "Source", "supplier data sheet MA-7 (invented)");
+    h.get_by_label("Add to the project").click();
+    h.run();
+
+    let project = h.state().project().clone();
+    assert_eq!(project.custom.ingredients.len(), 1);
+    let line = project.recipe.lines.last().unwrap();
+    assert_eq!(line.ingredient, "custom_marsh_acid");
+    let report = h.state().engine().solved().unwrap();
+    assert!(report.systems.iter().any(|s| {
+        h.state().engine().library().unwrap().systems()[s.system].id == "custom_marsh_acid"
+    }));
+}

@@ -8,15 +8,25 @@ use saltwise_chem::project::Settings;
 use super::sig;
 use crate::engine::Engine;
 
+/// Width from which values and conditions fit on one row, points.
+const WIDE_POINTS: f32 = 860.0;
+
 /// Draws the readout.
 pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
     egui::Frame::group(ui.style()).show(ui, |ui| {
         ui.set_width(ui.available_width());
-        ui.horizontal(|ui| {
-            values_ui(ui, settings, engine);
+        // Side by side when there is room; the conditions go under the values otherwise.
+        if ui.available_width() >= WIDE_POINTS {
+            ui.horizontal(|ui| {
+                values_ui(ui, settings, engine);
+                ui.separator();
+                conditions_ui(ui, settings);
+            });
+        } else {
+            ui.horizontal(|ui| values_ui(ui, settings, engine));
             ui.separator();
             conditions_ui(ui, settings);
-        });
+        }
         if let Some(report) = engine.solved() {
             for w in &report.warnings {
                 ui.colored_label(super::WARN, format!("Caution: {w}"));

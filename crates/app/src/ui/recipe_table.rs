@@ -42,12 +42,15 @@ pub fn recipe_panel_ui(
             lines_ui(ui, project, engine, library);
             ui.add_space(6.0);
             batch_ui(ui, project, engine);
-            if let Some(Err(e)) = engine.report() {
+            let empty = project.recipe.lines.is_empty();
+            if let (Some(Err(e)), false) = (engine.report(), empty) {
                 ui.add_space(4.0);
                 ui.colored_label(super::ERROR, format!("The recipe cannot be solved: {e}"));
             }
-            ui.add_space(8.0);
-            reasons_ui(ui, project, engine, library);
+            if !empty {
+                ui.add_space(8.0);
+                reasons_ui(ui, project, engine, library);
+            }
             ui.add_space(8.0);
             picker_ui(ui, project, library, &mut panels.picker_query);
             ui.add_space(8.0);
@@ -71,92 +74,99 @@ fn lines_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, library: &Libra
         return;
     }
     let mut action = None;
-    egui::Grid::new("recipe_grid")
-        .striped(true)
-        .spacing([10.0, 6.0])
+    // The table scrolls sideways on its own when the panel is narrow; the text below still wraps.
+    egui::ScrollArea::horizontal()
+        .id_salt("recipe_grid_scroll")
         .show(ui, |ui| {
-            for h in [
-                "On",
-                "Ingredient",
-                "Amount",
-                "",
-                "Assay",
-                "In batch",
-                "mol/kg",
-                "pH",
-                "",
-            ] {
-                ui.label(RichText::new(h).strong());
-            }
-            ui.end_row();
-            for (i, line) in project.recipe.lines.iter_mut().enumerate() {
-                let row = i + 1;
-                let entry = library.entry_index(&line.ingredient);
-                ui.checkbox(&mut line.enabled, "")
-                    .on_hover_text(format!("Use line {row}"));
-                let name = entry.map_or_else(
-                    || format!("{} (not in the library)", line.ingredient),
-                    |e| library.entries()[e].ingredient.name.clone(),
-                );
-                let text = RichText::new(&name);
-                let label = ui.label(if line.enabled {
-                    text
-                } else {
-                    text.weak().strikethrough()
-                });
-                if let Some(e) = entry.map(|e| &library.entries()[e]) {
-                    label.on_hover_text(format!(
-                        "{} ({}), {:.2} g/mol{}",
-                        e.ingredient.formula,
-                        e.ingredient.id,
-                        e.molar_mass_g_per_mol,
-                        if e.ingredient.note.is_empty() {
-                            String::new()
+            egui::Grid::new("recipe_grid")
+                .striped(true)
+                .spacing([10.0, 6.0])
+                .show(ui, |ui| {
+                    for h in [
+                        "On",
+                        "Ingredient",
+                        "Amount",
+                        "",
+                        "Assay",
+                        "In batch",
+                        "mol/kg",
+                        "pH",
+                        "",
+                    ] {
+                        ui.label(RichText::new(h).strong());
+                    }
+                    ui.end_row();
+                    for (i, line) in project.recipe.lines.iter_mut().enumerate() {
+                        let row = i + 1;
+                        let entry = library.entry_index(&line.ingredient);
+                        ui.checkbox(&mut line.enabled, "")
+                            .on_hover_text(format!("Use line {row}"));
+                        let name = entry.map_or_else(
+                            || format!("{} (not in the library)", line.ingredient),
+                            |e| library.entries()[e].ingredient.name.clone(),
+                        );
+                        let text = RichText::new(&name);
+                        let label = ui.label(if line.enabled {
+                            text
                         } else {
-                            format!("\n{}", e.ingredient.note)
+                            text.weak().strikethrough()
+                        });
+                        if let Some(e) = entry.map(|e| &library.entries()[e]) {
+                            label.on_hover_text(format!(
+                                "{} ({}), {:.2} g/mol{}",
+                                e.ingredient.formula,
+                                e.ingredient.id,
+                                e.molar_mass_g_per_mol,
+                                if e.ingredient.note.is_empty() {
+                                    String::new()
+                                } else {
+                                    format!("\n{}", e.ingredient.note)
+                                }
+                            ));
                         }
-                    ));
-                }
-                amount_ui(ui, &mut line.amount, row);
-                let a = entry.map_or(f64::NAN, |e| library.entries()[e].ingredient.assay);
-                ui.label(format!("{} %", sig(a * 100.0, 3)));
-                let line_mass = report.and_then(|r| r.batch.lines.get(i));
-                ui.label(line_mass.map_or("—".into(), |l| format!("{} g", sig(l.mass_g, 4))));
-                ui.label(report.map_or("—".into(), |r| sig(r.batch.line_molality(i), 3)));
-                match engine.effects().get(i).and_then(Option::as_ref) {
-                    Some(effect) if line.enabled => {
-                        ui.label(effect_text(ui, effect.effect))
-                            .on_hover_text(ion_reasons(effect));
-                    }
-                    _ => {
-                        ui.weak("off");
-                    }
-                }
-                ui.horizontal(|ui| {
-                    if ui
-                        .add_enabled_ui(i > 0, |ui| {
-                            named_button(ui, "Up", &format!("Move line {row} up"))
-                        })
-                        .inner
-                        .clicked()
-                    {
-                        action = Some(RowAction::Up(i));
-                    }
-                    if ui
-                        .add_enabled_ui(i + 1 < n, |ui| {
-                            named_button(ui, "Down", &format!("Move line {row} down"))
-                        })
-                        .inner
-                        .clicked()
-                    {
-                        action = Some(RowAction::Down(i));
-                    }
-                    if named_button(ui, "×", &format!("Remove line {row}")).clicked() {
-                        action = Some(RowAction::Remove(i));
+                        amount_ui(ui, &mut line.amount, row);
+                        let a = entry.map_or(f64::NAN, |e| library.entries()[e].ingredient.assay);
+                        ui.label(format!("{} %", sig(a * 100.0, 3)));
+                        let line_mass = report.and_then(|r| r.batch.lines.get(i));
+                        ui.label(
+                            line_mass.map_or("—".into(), |l| format!("{} g", sig(l.mass_g, 4))),
+                        );
+                        ui.label(report.map_or("—".into(), |r| sig(r.batch.line_molality(i), 3)));
+                        match engine.effects().get(i).and_then(Option::as_ref) {
+                            Some(effect) if line.enabled => {
+                                ui.label(effect_text(ui, effect.effect))
+                                    .on_hover_text(ion_reasons(effect));
+                            }
+                            _ => {
+                                ui.weak("off");
+                            }
+                        }
+                        ui.horizontal(|ui| {
+                            if ui
+                                .add_enabled_ui(i > 0, |ui| {
+                                    named_button(ui, "Up", &format!("Move line {row} up"))
+                                })
+                                .inner
+                                .clicked()
+                            {
+                                action = Some(RowAction::Up(i));
+                            }
+                            if ui
+                                .add_enabled_ui(i + 1 < n, |ui| {
+                                    named_button(ui, "Down", &format!("Move line {row} down"))
+                                })
+                                .inner
+                                .clicked()
+                            {
+                                action = Some(RowAction::Down(i));
+                            }
+                            if named_button(ui, "×", &format!("Remove line {row}")).clicked() {
+                                action = Some(RowAction::Remove(i));
+                            }
+                        });
+                        ui.end_row();
                     }
                 });
-                ui.end_row();
-            }
         });
     let lines = &mut project.recipe.lines;
     match action {
