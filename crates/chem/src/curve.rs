@@ -154,14 +154,30 @@ impl<'a> Doser<'a> {
     pub fn curve_between(&self, from_g: f64, to_g: f64, points: usize) -> DoseCurve {
         let n = points.max(2);
         let mut out = Vec::with_capacity(n);
-        let mut guess = None;
+        // Each solve starts from the extrapolation of the (up to) three before it.
+        let mut last: Vec<(f64, f64)> = Vec::with_capacity(3);
         for i in 0..n {
             let dose_g = from_g + (to_g - from_g) * i as f64 / (n - 1) as f64;
+            let guess = match last.as_slice() {
+                [a, b, c] => Some(Guess {
+                    ph: a.0 + (2.0 * (a.0 - b.0) - (b.0 - c.0)).clamp(-1.0, 1.0),
+                    ionic_strength: (3.0 * a.1 - 3.0 * b.1 + c.1).max(0.0),
+                }),
+                [a, b] => Some(Guess {
+                    ph: a.0 + (a.0 - b.0).clamp(-1.0, 1.0),
+                    ionic_strength: (2.0 * a.1 - b.1).max(0.0),
+                }),
+                [a] => Some(Guess {
+                    ph: a.0,
+                    ionic_strength: a.1,
+                }),
+                _ => None,
+            };
             let s = self.solve(dose_g, guess);
-            guess = Some(Guess {
-                ph: s.ph,
-                ionic_strength: s.ionic_strength,
-            });
+            if last.len() == 3 {
+                last.pop();
+            }
+            last.insert(0, (s.ph, s.ionic_strength));
             out.push(CurvePoint {
                 dose_g,
                 ph: s.ph,

@@ -24,57 +24,72 @@ pub struct Evaluation {
     pub protons_removed: f64,
 }
 
-/// Activity coefficients and conditional constants at one ionic strength.
-pub struct Conditional {
-    gammas: Gammas,
-    ka_c: Vec<f64>,
-}
-
-/// The charge balance of one composition.
+/// The charge balance of one composition, with activity coefficients and conditional
+/// constants held for one ionic strength at a time.
 pub struct ChargeBalance<'a> {
     constants: &'a Constants,
     composition: &'a Composition,
+    gamma1: f64,
+    /// The ionic strength the coefficients are for (NaN before the first set).
+    ionic: f64,
+    /// Conditional Ka of every step of every system present, in composition order.
+    ka_c: Vec<f64>,
 }
 
 impl<'a> ChargeBalance<'a> {
-    /// The balance of a composition under some constants.
+    /// The balance of a composition under some constants, at I = 0 until set.
     pub fn new(constants: &'a Constants, composition: &'a Composition) -> Self {
-        Self {
+        let steps = composition
+            .systems
+            .iter()
+            .map(|&(s, _)| constants.ka(s).len())
+            .sum();
+        let mut b = Self {
             constants,
             composition,
-        }
+            gamma1: 1.0,
+            ionic: f64::NAN,
+            ka_c: Vec::with_capacity(steps),
+        };
+        b.set_ionic_strength(0.0);
+        b
     }
 
-    /// Activity coefficients and conditional constants at an ionic strength.
-    pub fn gammas(&self, ionic_strength: f64) -> Conditional {
-        let gammas = Gammas::new(self.constants, ionic_strength);
-        let mut ka_c = Vec::with_capacity(self.composition.systems.len() * 3);
-        for &(system, _) in &self.composition.systems {
-            species::conditional_ka(self.constants, system, &gammas, &mut ka_c);
+    /// Recomputes activity coefficients and conditional constants at an ionic strength.
+    pub fn set_ionic_strength(&mut self, ionic_strength: f64) {
+        if ionic_strength.to_bits() == self.ionic.to_bits() {
+            return;
         }
-        Conditional { gammas, ka_c }
+        self.ionic = ionic_strength;
+        let gammas = Gammas::new(self.constants, ionic_strength);
+        self.gamma1 = gammas.of(1);
+        self.ka_c.clear();
+        for &(system, _) in &self.composition.systems {
+            species::conditional_ka(self.constants, system, &gammas, &mut self.ka_c);
+        }
     }
 
     /// The residual, its derivative and the ionic strength at a pH.
-    pub fn evaluate(&self, ph: f64, cond: &Conditional) -> Evaluation {
-        let h = 10f64.powf(-ph);
-        let g1 = cond.gammas.of(1);
-        let h_molal = h / g1;
-        let oh_molal = self.constants.kw / h / g1;
-        let mut residual = self.composition.spectator_charge + h_molal - oh_molal;
-        let mut scale = self.composition.spectator_abs_charge + h_molal + oh_molal;
+    pub fn evaluate(&self, ph: f64) -> Evaluation {
+        let h = (-ph * LN_10).exp();
+        let inv_h = 1.0 / h;
+        let h_molal = h / self.gamma1;
+        let oh_molal = self.constants.kw * inv_h / self.gamma1;
+        let c = self.composition;
+        let mut residual = c.spectator_charge + h_molal - oh_molal;
+        let mut scale = c.spectator_abs_charge + h_molal + oh_molal;
         let mut var_sum = 0.0;
-        let mut z2_sum = self.composition.spectator_z2 + h_molal + oh_molal;
+        let mut z2_sum = c.spectator_z2 + h_molal + oh_molal;
         let mut protons_removed = 0.0;
         let mut offset = 0;
-        for &(system, total) in &self.composition.systems {
+        for &(system, total) in &c.systems {
             let n = self.constants.ka(system).len();
             let z0 = self.constants.z0(system);
-            let m = species::moments(&cond.ka_c[offset..offset + n], h, z0);
+            let m = species::moments(&self.ka_c[offset..offset + n], inv_h, z0);
             offset += n;
             let mean_z = f64::from(z0) - m.mean;
             residual += total * mean_z;
-            scale += total * mean_z.abs().max(m.mean_z2.sqrt());
+            scale += total * m.mean_abs_z;
             var_sum += total * m.variance;
             z2_sum += total * m.mean_z2;
             protons_removed += total * m.mean;
@@ -92,15 +107,20 @@ impl<'a> ChargeBalance<'a> {
 
     /// Builds the reported solution at a converged pH and ionic strength.
     pub fn finish(
-        &self,
+        &mut self,
         ph: f64,
         ionic: f64,
+        evaluated: Option<Evaluation>,
         iterations: u32,
         outer: u32,
         status: SolveStatus,
     ) -> Solution {
-        let cond = self.gammas(ionic);
-        let e = self.evaluate(ph, &cond);
+        let same = ionic.to_bits() == self.ionic.to_bits();
+        self.set_ionic_strength(ionic);
+        let e = match evaluated {
+            Some(e) if same => e,
+            _ => self.evaluate(ph),
+        };
         // Proton balance: [H⁺] − [OH⁻] − Σ C⟨j⟩ equals the protons released in excess of the reference.
         let proton_lhs = e.h_molal - e.oh_molal - e.protons_removed;
         // Its scale includes every charged species: the spectators' rounding bounds both balances.

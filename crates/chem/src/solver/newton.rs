@@ -24,12 +24,22 @@ pub struct Outcome {
     pub iterations: u32,
     /// How it ended.
     pub status: Status,
+    /// Ionic strength of the last evaluated state.
+    pub ionic_strength: f64,
+    /// The evaluation at `x`, when `x` is the point last evaluated.
+    pub at_x: Option<Evaluation>,
 }
 
 /// Finds the root of a decreasing function in [lo, hi] from a start point.
-pub fn solve_bracketed(f: impl Fn(f64) -> Evaluation, start: f64, lo: f64, hi: f64) -> Outcome {
+pub fn solve_bracketed(
+    mut f: impl FnMut(f64) -> Evaluation,
+    start: f64,
+    lo: f64,
+    hi: f64,
+) -> Outcome {
     const MAX_ITER: u32 = 200;
     const REL_TOL: f64 = 1e-14;
+    let (bottom, top) = (lo, hi);
     let (mut lo, mut hi) = (lo, hi);
     let mut x = if start.is_finite() {
         start.clamp(lo, hi)
@@ -38,8 +48,17 @@ pub fn solve_bracketed(f: impl Fn(f64) -> Evaluation, start: f64, lo: f64, hi: f
     };
     let mut checked_lo = false;
     let mut checked_hi = false;
+    let mut ionic = 0.0;
+    let done = |x: f64, iterations: u32, status: Status, ionic_strength: f64| Outcome {
+        x,
+        iterations,
+        status,
+        ionic_strength,
+        at_x: None,
+    };
     for iter in 1..=MAX_ITER {
         let e = f(x);
+        ionic = e.ionic_strength;
         let r = e.residual;
         if !r.is_finite() {
             x = 0.5 * (lo + hi);
@@ -47,9 +66,8 @@ pub fn solve_bracketed(f: impl Fn(f64) -> Evaluation, start: f64, lo: f64, hi: f
         }
         if r.abs() <= REL_TOL * e.scale {
             return Outcome {
-                x,
-                iterations: iter,
-                status: Status::Converged,
+                at_x: Some(e),
+                ..done(x, iter, Status::Converged, ionic)
             };
         }
         if r > 0.0 {
@@ -66,40 +84,26 @@ pub fn solve_bracketed(f: impl Fn(f64) -> Evaluation, start: f64, lo: f64, hi: f
         let mut next = x + step;
         if !next.is_finite() || next <= lo || next >= hi {
             // Check the ends once, so a root outside the bracket is reported rather than chased.
-            if r < 0.0 && !checked_lo && lo <= super::PH_MIN {
+            if r < 0.0 && !checked_lo && lo <= bottom {
                 checked_lo = true;
-                if f(lo).residual < 0.0 {
-                    return Outcome {
-                        x: lo,
-                        iterations: iter,
-                        status: Status::BelowBracket,
-                    };
+                let e_lo = f(bottom);
+                if e_lo.residual < 0.0 {
+                    return done(bottom, iter, Status::BelowBracket, e_lo.ionic_strength);
                 }
             }
-            if r > 0.0 && !checked_hi && hi >= super::PH_MAX {
+            if r > 0.0 && !checked_hi && hi >= top {
                 checked_hi = true;
-                if f(hi).residual > 0.0 {
-                    return Outcome {
-                        x: hi,
-                        iterations: iter,
-                        status: Status::AboveBracket,
-                    };
+                let e_hi = f(top);
+                if e_hi.residual > 0.0 {
+                    return done(top, iter, Status::AboveBracket, e_hi.ionic_strength);
                 }
             }
             next = 0.5 * (lo + hi);
         }
         if (next - x).abs() <= 1e-15 * (1.0 + x.abs()) || hi - lo <= 1e-15 * (1.0 + x.abs()) {
-            return Outcome {
-                x: next,
-                iterations: iter,
-                status: Status::Converged,
-            };
+            return done(next, iter, Status::Converged, ionic);
         }
         x = next;
     }
-    Outcome {
-        x,
-        iterations: MAX_ITER,
-        status: Status::IterationLimit,
-    }
+    done(x, MAX_ITER, Status::IterationLimit, ionic)
 }

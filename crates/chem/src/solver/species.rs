@@ -65,7 +65,7 @@ impl SystemState {
     }
 }
 
-/// Moments of one system's distribution: ⟨j⟩, Var(j), ⟨z²⟩ (j = protons removed).
+/// Moments of one system's distribution: ⟨j⟩, Var(j), ⟨z²⟩, ⟨|z|⟩ (j = protons removed).
 #[derive(Debug, Clone, Copy, Default)]
 pub struct Moments {
     /// Mean protons removed.
@@ -74,36 +74,36 @@ pub struct Moments {
     pub variance: f64,
     /// Mean squared charge.
     pub mean_z2: f64,
+    /// Mean charge magnitude.
+    pub mean_abs_z: f64,
 }
 
-/// Moments from conditional constants K'_k = [S_k][H]·…: `ka_c[k] / h_conc_activity` ratios.
-///
-/// `ka_c[k]` is the concentration ratio [S_k+1]/[S_k] times a(H⁺); `h` is a(H⁺).
+/// Moments from conditional constants `ka_c` (ratios [S_k+1]/[S_k] times a(H⁺)) and 1/a(H⁺).
 #[inline]
-pub fn moments(ka_c: &[f64], h: f64, z0: i32) -> Moments {
-    let mut t = [0.0f64; 16];
-    let n = ka_c.len().min(15);
-    t[0] = 1.0;
+pub fn moments(ka_c: &[f64], inv_h: f64, z0: i32) -> Moments {
+    let mut t = 1.0;
     let mut sum = 1.0;
     let mut m1 = 0.0;
-    for k in 0..n {
-        t[k + 1] = t[k] * ka_c[k] / h;
-        sum += t[k + 1];
-        m1 += (k + 1) as f64 * t[k + 1];
+    let mut m2 = 0.0;
+    let mut abs_z = f64::from(z0.abs());
+    for (k, &ka) in ka_c.iter().enumerate() {
+        t *= ka * inv_h;
+        let j = (k + 1) as f64;
+        sum += t;
+        m1 += j * t;
+        m2 += j * j * t;
+        abs_z += f64::from((z0 - k as i32 - 1).abs()) * t;
     }
-    let mean = m1 / sum;
-    let mut var = 0.0;
-    let mut mz2 = 0.0;
-    for (j, &tj) in t.iter().enumerate().take(n + 1) {
-        let d = j as f64 - mean;
-        var += d * d * tj;
-        let z = f64::from(z0) - j as f64;
-        mz2 += z * z * tj;
-    }
+    let inv = 1.0 / sum;
+    let mean = m1 * inv;
+    // Var(j) = ⟨j²⟩ − ⟨j⟩², clamped at 0 against rounding when one form dominates.
+    let variance = (m2 * inv - mean * mean).max(0.0);
+    let z0 = f64::from(z0);
     Moments {
         mean,
-        variance: var / sum,
-        mean_z2: mz2 / sum,
+        variance,
+        mean_z2: z0 * z0 - 2.0 * z0 * mean + m2 * inv,
+        mean_abs_z: abs_z * inv,
     }
 }
 
