@@ -287,3 +287,44 @@ fn a_custom_weak_acid_from_the_form_joins_the_recipe_and_solves() {
         h.state().engine().library().unwrap().systems()[s.system].id == "custom_marsh_acid"
     }));
 }
+
+#[test]
+fn the_demo_with_its_percent_lines_saves_and_reopens_unchanged() {
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("cleanser.ron");
+    let mut h = harness(Project::demo(), dir.path());
+    h.state_mut().queue(Command::SaveToPath(file.clone()));
+    h.run();
+    assert_eq!(
+        h.state().file_path(),
+        Some(file.as_path()),
+        "{:?}",
+        h.state().status_text()
+    );
+    h.state_mut().queue(Command::New);
+    h.run();
+    h.state_mut().queue(Command::OpenPath(file));
+    h.run();
+    assert_eq!(h.state().project(), &Project::demo());
+}
+
+#[test]
+fn switching_a_line_from_percent_to_grams_keeps_its_mass() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(Project::demo(), dir.path());
+    let ph = h.state().engine().solved().unwrap().solution.ph;
+    h.get_by_label("Unit of line 1").click();
+    h.run();
+    h.get_by_role_and_label(egui::accesskit::Role::Button, "g")
+        .click();
+    h.run();
+    let line = &h.state().project().recipe.lines[0];
+    assert_eq!(line.amount.unit, saltwise_chem::Unit::Gram);
+    assert!(
+        (line.amount.value - 8.0).abs() < 1e-9,
+        "0.8 % of 1000 g is 8 g, got {}",
+        line.amount.value
+    );
+    let after = h.state().engine().solved().unwrap().solution.ph;
+    assert!((after - ph).abs() < 1e-9, "same batch, same pH");
+}

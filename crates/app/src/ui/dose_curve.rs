@@ -40,10 +40,10 @@ pub fn dose_curve_ui(
             DragValue::new(&mut settings.dose_max_g)
                 .range(0.001..=1.0e6)
                 .speed(speed)
-                .suffix(" g")
                 .max_decimals(3),
         )
         .labelled_by(label.id);
+        ui.label("g");
         ui.checkbox(&mut panels.show_buffer_capacity, "Show buffer capacity");
     });
     let curve = match engine.curve() {

@@ -105,14 +105,16 @@ fn conditions_ui(ui: &mut Ui, settings: &mut Settings) {
         .spacing([8.0, 4.0])
         .show(ui, |ui| {
             let label = ui.label("Temperature");
-            ui.add(
-                DragValue::new(&mut settings.temp_c)
-                    .range(0.0..=95.0)
-                    .speed(0.2)
-                    .suffix(" °C")
-                    .max_decimals(1),
-            )
-            .labelled_by(label.id);
+            ui.horizontal(|ui| {
+                ui.add(
+                    DragValue::new(&mut settings.temp_c)
+                        .range(0.0..=95.0)
+                        .speed(0.2)
+                        .max_decimals(1),
+                )
+                .labelled_by(label.id);
+                ui.label("°C");
+            });
             ui.end_row();
             ui.label("Activity model");
             egui::ComboBox::from_id_salt("activity_model")

@@ -2,6 +2,7 @@
 //! line does to pH, and the picker that adds ingredients from the library.
 
 use egui::{DragValue, RichText, Ui};
+use saltwise_chem::library::Entry;
 use saltwise_chem::project::Project;
 use saltwise_chem::{Amount, Library, RecipeLine, Unit};
 
@@ -124,7 +125,16 @@ fn lines_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, library: &Libra
                                 }
                             ));
                         }
+                        let before = line.amount;
                         amount_ui(ui, &mut line.amount, row);
+                        if line.amount.unit != before.unit {
+                            // Keep the mass when only the unit changes.
+                            let batch_g = report.map(|r| r.batch.total_mass_g);
+                            let entry = entry.map(|e| &library.entries()[e]);
+                            if let Some(v) = convert(entry, before, line.amount.unit, batch_g) {
+                                line.amount.value = v;
+                            }
+                        }
                         let a = entry.map_or(f64::NAN, |e| library.entries()[e].ingredient.assay);
                         ui.label(format!("{} %", sig(a * 100.0, 3)));
                         let line_mass = report.and_then(|r| r.batch.lines.get(i));
@@ -202,6 +212,23 @@ fn amount_ui(ui: &mut Ui, amount: &mut Amount, row: usize) {
         .on_hover_text(format!("Unit of line {row}"));
 }
 
+/// The value in `unit` of the same mass as `amount`, if it can be known.
+fn convert(entry: Option<&Entry>, amount: Amount, unit: Unit, batch_g: Option<f64>) -> Option<f64> {
+    let entry = entry?;
+    let grams = match entry.grams(amount) {
+        Some(g) => g,
+        None => amount.value / 100.0 * batch_g?,
+    };
+    let value = match unit {
+        Unit::Gram => grams,
+        Unit::Kilogram => grams * 1e-3,
+        Unit::Milligram => grams * 1e3,
+        Unit::Mole => grams * entry.ingredient.assay / entry.molar_mass_g_per_mol,
+        Unit::Percent => 100.0 * grams / batch_g.filter(|b| *b > 0.0)?,
+    };
+    value.is_finite().then_some(value)
+}
+
 fn drag_speed(amount: Amount) -> f64 {
     let scale: f64 = match amount.unit {
         Unit::Gram => 0.05,
@@ -232,13 +259,9 @@ fn batch_ui(ui: &mut Ui, project: &mut Project, engine: &Engine) {
         }
         if let Some(size) = project.recipe.qs_to_g.as_mut() {
             let speed = (*size * 0.002).max(0.1);
-            ui.add(
-                DragValue::new(size)
-                    .range(0.001..=1.0e8)
-                    .speed(speed)
-                    .suffix(" g"),
-            )
-            .on_hover_text("Batch size");
+            ui.add(DragValue::new(size).range(0.001..=1.0e8).speed(speed))
+                .on_hover_text("Batch size");
+            ui.label("g");
             if let Some(r) = report {
                 ui.label(format!("— water added: {} g", sig(r.batch.qs_water_g, 5)));
             }
