@@ -10,7 +10,7 @@ use std::path::{Path, PathBuf};
 use serde::{Deserialize, Serialize};
 
 use crate::error::ProjectError;
-use crate::library::LibraryData;
+use crate::library::{Library, LibraryData};
 use crate::recipe::{Recipe, RecipeLine, Unit};
 use crate::solver::ActivityModel;
 
@@ -192,25 +192,66 @@ impl Project {
 
     /// Reads a project file, refusing files that are too large, not text or malformed.
     pub fn load(path: &Path) -> Result<Self, ProjectError> {
+        let text = read_text(path)?;
+        Self::from_ron(&text, &path.display().to_string())
+    }
+}
+
+impl Project {
+    /// Reads a project file and builds the library its recipe needs (the base library with the
+    /// project's custom ingredients), refusing unknown ingredient ids with their line and column.
+    pub fn load_with_library(path: &Path, base: &Library) -> Result<(Self, Library), ProjectError> {
         let name = path.display().to_string();
-        let io = |source| ProjectError::Io {
-            path: name.clone(),
-            source,
-        };
-        let size_bytes = fs::metadata(path).map_err(io)?.len();
-        if size_bytes > MAX_FILE_BYTES {
-            return Err(ProjectError::TooLarge {
-                path: name,
-                size_bytes,
-                limit_bytes: MAX_FILE_BYTES,
-            });
+        let text = read_text(path)?;
+        let project = Self::from_ron(&text, &name)?;
+        let library = project.library(base, &name, Some(&text))?;
+        Ok((project, library))
+    }
+
+    /// The base library extended with this project's custom ingredients; every recipe line's
+    /// ingredient must be in it. `text`, when given, locates problems by line and column.
+    pub fn library(
+        &self,
+        base: &Library,
+        origin: &str,
+        text: Option<&str>,
+    ) -> Result<Library, ProjectError> {
+        let mut library = base.clone();
+        library
+            .extend(self.custom.clone())
+            .map_err(|e| ProjectError::Invalid {
+                path: origin.to_owned(),
+                message: format!("custom ingredients: {e}"),
+            })?;
+        for (i, line) in self.recipe.lines.iter().enumerate() {
+            if library.entry_index(&line.ingredient).is_none() {
+                let suggestions = library.suggest(&line.ingredient);
+                let hint = if suggestions.is_empty() {
+                    String::new()
+                } else {
+                    format!("; did you mean {}?", suggestions.join(", "))
+                };
+                let message = format!(
+                    "recipe line {} uses unknown ingredient '{}'{hint}",
+                    i + 1,
+                    line.ingredient
+                );
+                let needle = format!("\"{}\"", line.ingredient);
+                return Err(match text.and_then(|t| locate(t, &needle)) {
+                    Some((l, c)) => ProjectError::Syntax {
+                        path: origin.to_owned(),
+                        line: l,
+                        column: c,
+                        message,
+                    },
+                    None => ProjectError::Invalid {
+                        path: origin.to_owned(),
+                        message,
+                    },
+                });
+            }
         }
-        let bytes = fs::read(path).map_err(io)?;
-        let text = String::from_utf8(bytes).map_err(|e| ProjectError::NotText {
-            path: name.clone(),
-            offset: e.utf8_error().valid_up_to(),
-        })?;
-        Self::from_ron(&text, &name)
+        Ok(library)
     }
 
     /// Writes the project atomically: a temporary file in the same folder, synced, then renamed;
@@ -224,6 +265,37 @@ impl Project {
         write_atomic(path, text.as_bytes(), true)
             .map_err(|source| ProjectError::Io { path: name, source })
     }
+}
+
+/// Reads a file as text within the size limit.
+fn read_text(path: &Path) -> Result<String, ProjectError> {
+    let name = path.display().to_string();
+    let io = |source| ProjectError::Io {
+        path: name.clone(),
+        source,
+    };
+    let size_bytes = fs::metadata(path).map_err(io)?.len();
+    if size_bytes > MAX_FILE_BYTES {
+        return Err(ProjectError::TooLarge {
+            path: name,
+            size_bytes,
+            limit_bytes: MAX_FILE_BYTES,
+        });
+    }
+    let bytes = fs::read(path).map_err(io)?;
+    String::from_utf8(bytes).map_err(|e| ProjectError::NotText {
+        path: name.clone(),
+        offset: e.utf8_error().valid_up_to(),
+    })
+}
+
+/// One-based line and column of the first occurrence of `needle` in `text`.
+fn locate(text: &str, needle: &str) -> Option<(usize, usize)> {
+    let at = text.find(needle)?;
+    let before = &text[..at];
+    let line = before.matches('\n').count() + 1;
+    let column = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
+    Some((line, column))
 }
 
 /// The backup file kept beside a saved project.
