@@ -14,9 +14,14 @@ fn demo_text() -> String {
 
 fn load_text(dir: &Path, name: &str, text: &[u8]) -> Result<Project, ProjectError> {
     let path = dir.join(name);
-    fs::write(&path, text).unwrap();
-    let result = Project::load_with_library(&path, &Library::built_in().unwrap()).map(|(p, _)| p);
-    assert_eq!(fs::read(&path).unwrap(), text, "loading must never modify the file");
+    fs::write(&path, text).expect("write test file");
+    let library = Library::built_in().expect("built-in library");
+    let result = Project::load_with_library(&path, &library).map(|(p, _)| p);
+    assert_eq!(
+        fs::read(&path).expect("read back"),
+        text,
+        "loading must never modify the file"
+    );
     result
 }
 
@@ -60,7 +65,9 @@ fn truncated_files_are_refused() {
 #[test]
 fn binary_files_are_refused_as_not_text() {
     let dir = tempfile::tempdir().unwrap();
-    let bytes: Vec<u8> = (0..2000u32).map(|i| (i * 7919 % 251) as u8 | 0x80).collect();
+    let bytes: Vec<u8> = (0..2000u32)
+        .map(|i| (i * 7919 % 251) as u8 | 0x80)
+        .collect();
     let err = load_text(dir.path(), "image.ron", &bytes).unwrap_err();
     assert!(matches!(err, ProjectError::NotText { .. }), "{err}");
     assert!(err.to_string().contains("not a text file"));
@@ -97,7 +104,10 @@ fn unknown_ingredients_are_located_and_suggested() {
     let err = load_text(dir.path(), "typo.ron", text.as_bytes()).unwrap_err();
     let msg = err.to_string();
     assert!(matches!(err, ProjectError::Syntax { .. }), "{msg}");
-    assert!(msg.contains("recipe line 3") && msg.contains("did you mean sodium_benzoate"), "{msg}");
+    assert!(
+        msg.contains("recipe line 3") && msg.contains("did you mean sodium_benzoate"),
+        "{msg}"
+    );
 }
 
 #[test]
@@ -116,10 +126,15 @@ fn a_failed_save_leaves_the_old_file_and_no_litter() {
     let path = dir.path().join("batch.ron");
     fs::write(&path, "previous contents").unwrap();
     // Failure injected between writing the temporary file and renaming it.
-    let err = write_atomic_with(&path, b"new contents", true, |_| Err(std::io::Error::other("disk full (simulated)")));
+    let err = write_atomic_with(&path, b"new contents", true, |_| {
+        Err(std::io::Error::other("disk full (simulated)"))
+    });
     assert!(err.is_err());
     assert_eq!(fs::read_to_string(&path).unwrap(), "previous contents");
-    let names: Vec<_> = fs::read_dir(dir.path()).unwrap().map(|e| e.unwrap().file_name()).collect();
+    let names: Vec<_> = fs::read_dir(dir.path())
+        .unwrap()
+        .map(|e| e.unwrap().file_name())
+        .collect();
     assert_eq!(names.len(), 1, "temporary file left behind: {names:?}");
 }
 
@@ -131,7 +146,10 @@ fn saving_keeps_the_previous_version_as_a_backup() {
     project.save(&path).unwrap();
     project.name = "second".into();
     project.save(&path).unwrap();
-    assert_eq!(Project::load(&backup_path(&path)).unwrap().name, Project::demo().name);
+    assert_eq!(
+        Project::load(&backup_path(&path)).unwrap().name,
+        Project::demo().name
+    );
     assert_eq!(Project::load(&path).unwrap().name, "second");
 }
 
