@@ -57,9 +57,76 @@ proptest! {
         let constants = Constants::new(&lib, Conditions::default());
         let batch = build(&items, water_g).batch(&lib).expect("valid recipe");
         let doser = Doser::new(&lib, &constants, &batch, "sodium_hydroxide").expect("adjuster");
-        let curve = doser.curve(0.05 * batch.total_mass_g, 64);
-        for w in curve.points.windows(2) {
-            prop_assert!(w[1].ph >= w[0].ph - 1e-9, "pH fell from {} to {} at {} g", w[0].ph, w[1].ph, w[1].dose_g);
+        let max_g = 0.05 * batch.total_mass_g;
+        let mut last: Option<f64> = None;
+        for i in 0..64 {
+            let s = doser.solve(max_g * f64::from(i) / 63.0, None);
+            // Only inside the activity model's range: beyond I = 0.5 Davies has no physical meaning.
+            if !s.converged() || s.ionic_strength > ActivityModel::Davies.max_ionic_strength() {
+                last = None;
+                continue;
+            }
+            if let Some(prev) = last {
+                prop_assert!(s.ph >= prev - 1e-9, "pH fell from {prev} to {} at point {i}", s.ph);
+            }
+            last = Some(s.ph);
+        }
+    }
+}
+
+/// Random compositions straight into the solver: up to 20 systems, 1e-9 to 10 mol/kg each,
+/// strong acid or base excess to push pH near 0 and 14.
+fn extreme_strategy() -> impl Strategy<Value = (Vec<(usize, f64)>, f64)> {
+    let systems = library().systems().len();
+    (
+        prop::collection::vec((0..systems, -9.0f64..1.0), 1..=20),
+        -3.0f64..1.0,
+    )
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 1000, ..ProptestConfig::default() })]
+
+    #[test]
+    fn extreme_recipes_always_return_and_say_when_outside_the_model(
+        (systems, log_excess) in extreme_strategy(),
+        base in any::<bool>(),
+        temp_c in 0.0f64..95.0,
+    ) {
+        use saltwise_chem::solver::{self, Composition};
+        let lib = library();
+        let constants = Constants::new(&lib, Conditions { temp_c, activity: ActivityModel::Davies });
+        // Systems at their fully protonated form, plus Na+ or Cl- and the matching H+/OH- excess.
+        let excess = 10f64.powf(log_excess);
+        let mut c = Composition::default();
+        let mut seen = std::collections::BTreeMap::new();
+        for (s, log_m) in systems {
+            *seen.entry(s).or_insert(0.0) += 10f64.powf(log_m);
+        }
+        c.systems = seen.into_iter().collect();
+        for &(s, m) in &c.systems {
+            // The counter-ion of a charged fully protonated form is a spectator of opposite charge.
+            let z = f64::from(lib.systems()[s].charge_of_fully_protonated);
+            c.spectator_charge -= z * m;
+            c.spectator_z2 += z * z * m;
+            c.spectator_abs_charge += z.abs() * m;
+        }
+        let sign = if base { 1.0 } else { -1.0 };
+        c.spectator_charge += sign * excess;
+        c.spectator_z2 += excess;
+        c.spectator_abs_charge += excess;
+        c.proton_excess -= sign * excess;
+        let s = solver::solve(&constants, &c, None);
+        prop_assert!(s.ph.is_finite() && s.ionic_strength.is_finite());
+        let warnings = saltwise_chem::report::warnings(&constants, &s);
+        if s.converged() {
+            prop_assert!(s.charge_residual < 1e-10, "charge residual {}", s.charge_residual);
+            prop_assert!(s.proton_residual < 1e-10, "proton residual {}", s.proton_residual);
+            if s.ionic_strength > 0.5 || !(-1.0..=15.0).contains(&s.ph) {
+                prop_assert!(!warnings.is_empty(), "outside the model without a warning: {s:?}");
+            }
+        } else {
+            prop_assert!(!warnings.is_empty());
         }
     }
 }
