@@ -66,7 +66,18 @@ pub struct Workbench {
     started: bool,
     pub(crate) allow_close: bool,
     pub(crate) quit_requested: bool,
+    /// A copy of unsaved work from an earlier session, waiting for an answer.
+    pub(crate) recovery_offer: Option<PathBuf>,
+    /// Seconds between autosaves of unsaved work.
+    autosave_secs: f64,
+    /// When unsaved work was last kept, seconds of input time.
+    last_autosave: f64,
+    /// The project as last kept for recovery.
+    autosaved: Option<Project>,
 }
+
+/// Default seconds between autosaves of unsaved work.
+const AUTOSAVE_SECS: f64 = 30.0;
 
 impl Workbench {
     /// A workbench on the demo project, with settings kept by `store`.
@@ -93,7 +104,12 @@ impl Workbench {
             started: false,
             allow_close: false,
             quit_requested: false,
+            recovery_offer: None,
+            autosave_secs: AUTOSAVE_SECS,
+            last_autosave: 0.0,
+            autosaved: None,
         };
+        app.recovery_offer = app.store.recovery_file().filter(|f| f.exists());
         if let Some(problem) = problem {
             app.set_status(&problem, true);
         }
@@ -164,6 +180,20 @@ impl Workbench {
         self.quit_requested
     }
 
+    /// Sets how often unsaved work is kept for recovery (tests use 0).
+    pub fn set_autosave_secs(&mut self, secs: f64) {
+        self.autosave_secs = secs.max(0.0);
+    }
+
+    /// The copy of unsaved work from an earlier session, if one is offered.
+    pub fn recovery_offer(&self) -> Option<&Path> {
+        self.recovery_offer.as_deref()
+    }
+
+    pub(crate) fn store(&self) -> &ConfigStore {
+        &self.store
+    }
+
     /// Whether there is an edit to undo.
     pub fn can_undo(&self) -> bool {
         self.history.can_undo()
@@ -184,8 +214,16 @@ impl Workbench {
         self.prompt = None;
     }
 
+    /// Opens work that was never saved: no file, and every bit of it counts as a change.
+    pub(crate) fn replace_with_unsaved(&mut self, project: Project) {
+        self.replace_project(project, None);
+        self.saved = Project::default();
+    }
+
     pub(crate) fn mark_saved(&mut self, path: PathBuf) {
         self.saved = self.project.clone();
+        self.store.clear_recovery();
+        self.autosaved = None;
         self.file = Some(path);
     }
 
@@ -257,6 +295,7 @@ impl Workbench {
         let settled = !ctx.input(|i| i.pointer.any_down()) && ctx.memory(|m| m.focused().is_none());
         self.history.observe(&self.project, settled);
         self.track_window(&ctx);
+        self.autosave(&ctx, settled);
         if !self.queue.is_empty() {
             ctx.request_repaint();
         }
@@ -264,6 +303,20 @@ impl Workbench {
         if title != self.title {
             ctx.send_viewport_cmd(egui::ViewportCommand::Title(title.clone()));
             self.title = title;
+        }
+    }
+
+    /// Keeps a copy of unsaved work now and then, so a crash loses little.
+    fn autosave(&mut self, ctx: &egui::Context, settled: bool) {
+        let now = ctx.input(|i| i.time);
+        let due = now - self.last_autosave >= self.autosave_secs;
+        if !(settled && due && self.is_dirty()) || self.autosaved.as_ref() == Some(&self.project) {
+            return;
+        }
+        self.last_autosave = now;
+        match self.store.write_recovery(&self.project) {
+            Ok(()) => self.autosaved = Some(self.project.clone()),
+            Err(e) => self.set_status(&e, true),
         }
     }
 
@@ -278,6 +331,7 @@ impl Workbench {
             });
         } else {
             self.allow_close = true;
+            self.store.clear_recovery();
             self.save_config();
         }
     }

@@ -41,6 +41,10 @@ pub enum Command {
     Quit,
     /// Answer the unsaved-changes question.
     Resolve(Resolution),
+    /// Open the copy of unsaved work kept from an earlier session.
+    Recover,
+    /// Throw away the copy of unsaved work kept from an earlier session.
+    DiscardRecovery,
 }
 
 /// An answer to the unsaved-changes question.
@@ -101,6 +105,11 @@ impl Workbench {
             Command::ZoomOut => self.set_zoom(ctx, self.config.zoom / ZOOM_STEP),
             Command::ZoomReset => self.set_zoom(ctx, 1.0),
             Command::Resolve(answer) => self.resolve(ctx, answer),
+            Command::Recover => self.recover(),
+            Command::DiscardRecovery => {
+                self.recovery_offer = None;
+                self.store().clear_recovery();
+            }
         }
     }
 
@@ -151,9 +160,27 @@ impl Workbench {
             Pending::Quit => {
                 self.allow_close = true;
                 self.quit_requested = true;
+                self.store().clear_recovery();
                 self.save_config();
                 ctx.send_viewport_cmd(egui::ViewportCommand::Close);
             }
+        }
+    }
+
+    fn recover(&mut self) {
+        let Some(path) = self.recovery_offer.take() else {
+            return;
+        };
+        match Project::load(&path) {
+            Ok(project) => {
+                // Recovered work is unsaved work: it has no file yet and shows as changed.
+                self.replace_with_unsaved(project);
+                self.set_status(
+                    "recovered the unsaved work of the last session; save it to keep it",
+                    false,
+                );
+            }
+            Err(e) => self.set_status(&format!("could not recover: {e}"), true),
         }
     }
 

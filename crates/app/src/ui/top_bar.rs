@@ -112,6 +112,23 @@ pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
                 });
             });
     }
+    if app.recovery_offer.is_some() {
+        egui::Frame::group(ui.style())
+            .fill(ui.visuals().warn_fg_color.gamma_multiply(0.15))
+            .show(ui, |ui| {
+                ui.horizontal_wrapped(|ui| {
+                    ui.label(
+                        RichText::new("Unsaved work from the last session was kept.").strong(),
+                    );
+                    if ui.button("Recover it").clicked() {
+                        commands.push(Command::Recover);
+                    }
+                    if ui.button("Throw it away").clicked() {
+                        commands.push(Command::DiscardRecovery);
+                    }
+                });
+            });
+    }
     if let Some(status) = &app.status {
         let text = RichText::new(&status.text).small();
         ui.label(if status.is_error {
