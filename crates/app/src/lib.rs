@@ -6,6 +6,8 @@
 //! [`Command`] handled in one place (`command.rs`); the saved [`saltwise_chem::project::Project`]
 //! is kept apart from runtime state (solved results, undo history, selection).
 
+#![warn(missing_docs)]
+
 mod app;
 mod command;
 mod config;
