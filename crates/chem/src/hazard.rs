@@ -55,16 +55,18 @@ pub fn cautions(library: &Library, batch: &Batch, solution: Option<&Solution>) -
         });
     let mut out = Vec::new();
     let list = |v: &[String]| v.join(", ");
+    // "X is" or "X, Y are".
+    let is = |v: &[String]| format!("{} {}", list(v), if v.len() > 1 { "are" } else { "is" });
     if !strong_acid.is_empty() {
         out.push(Caution {
             title: "Strong acid".into(),
-            text: format!("{} is corrosive to skin and eyes. Wear eye and skin protection, add acid to water (never water to acid) and dilute slowly.", list(&strong_acid)),
+            text: format!("{} corrosive to skin and eyes. Wear eye and skin protection, add acid to water (never water to acid) and dilute slowly.", is(&strong_acid)),
         });
     }
     if !strong_alkali.is_empty() {
         out.push(Caution {
             title: "Strong alkali".into(),
-            text: format!("{} is corrosive and causes severe eye damage; dissolving it releases heat. Wear eye and skin protection and add it slowly to water.", list(&strong_alkali)),
+            text: format!("{} corrosive and can cause severe eye damage; dissolving releases heat. Wear eye and skin protection and add slowly to water.", is(&strong_alkali)),
         });
     }
     let other_corrosive: Vec<String> = corrosive
@@ -75,15 +77,15 @@ pub fn cautions(library: &Library, batch: &Batch, solution: Option<&Solution>) -
         out.push(Caution {
             title: "Corrosive raw material".into(),
             text: format!(
-                "{} is corrosive as supplied: wear eye and skin protection.",
-                list(&other_corrosive)
+                "{} corrosive as supplied: wear eye and skin protection.",
+                is(&other_corrosive)
             ),
         });
     }
     if !hypochlorite.is_empty() {
         out.push(Caution {
             title: "Hypochlorite".into(),
-            text: format!("{} is an oxidiser and corrosive. Mixed with acids it releases chlorine gas; keep its products alkaline.", list(&hypochlorite)),
+            text: format!("{} an oxidiser and corrosive. Mixed with acids, hypochlorite releases chlorine gas; keep its products alkaline.", is(&hypochlorite)),
         });
         if any_acid_line || solution.is_some_and(|s| s.ph < 7.0) {
             out.push(Caution {

@@ -72,7 +72,7 @@ pub fn warnings(constants: &Constants, solution: &Solution) -> Vec<String> {
         w.push(format!(
             "ionic strength {:.3} mol/kg is above {limit} mol/kg, the usual limit of the {} activity model: treat the pH as indicative",
             solution.ionic_strength,
-            model.name()
+            model.label()
         ));
     }
     match solution.status {

@@ -23,6 +23,14 @@ impl ActivityModel {
         }
     }
 
+    /// Name for people: `Davies` or `ideal`.
+    pub fn label(self) -> &'static str {
+        match self {
+            Self::Davies => "Davies",
+            Self::Ideal => "ideal",
+        }
+    }
+
     /// Lower-case name as used on the command line.
     pub fn name(self) -> &'static str {
         match self {
