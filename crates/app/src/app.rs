@@ -9,7 +9,11 @@ use crate::command::{Command, Pending};
 use crate::config::{ConfigStore, UserConfig};
 use crate::engine::Engine;
 use crate::history::History;
+use crate::recovery::{LeftBehind, RecoveryStore};
 use crate::ui;
+
+/// A failure injected into saves between writing the temporary file and renaming it (tests).
+pub type SaveFault = Box<dyn Fn(&Path) -> std::io::Result<()>>;
 
 /// An unsaved-changes question waiting for an answer.
 #[derive(Debug, Clone, PartialEq)]
@@ -26,6 +30,9 @@ impl Prompt {
             Pending::Open | Pending::OpenPath(_) => {
                 "Open another project? This one has unsaved changes."
             }
+            Pending::Recover => {
+                "Recover the unsaved work of the last session? This project has unsaved changes."
+            }
             Pending::Quit => "Quit Saltwise? This project has unsaved changes.",
         }
     }
@@ -38,6 +45,17 @@ pub(crate) struct Status {
     pub is_error: bool,
 }
 
+/// A problem with a file that needs to be read, shown in a strip under the menu until dismissed.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Notice {
+    /// What failed, in a few words ("Could not open degreaser.ron").
+    pub headline: String,
+    /// Why, as the core reports it: what, where, what is allowed.
+    pub reason: String,
+    /// What this means for the open project.
+    pub consequence: String,
+}
+
 /// Runtime state of the panels that is not part of the project.
 #[derive(Debug, Clone, Default)]
 pub(crate) struct PanelState {
@@ -47,6 +65,8 @@ pub(crate) struct PanelState {
     pub show_buffer_capacity: bool,
     /// The custom-ingredient form.
     pub custom: ui::custom_ingredient::CustomForm,
+    /// Why the last text typed into a number field was refused, by the field's name.
+    pub refused: ui::Refusals,
 }
 
 /// The whole workbench: the saved project apart from what is only kept while running.
@@ -66,28 +86,50 @@ pub struct Workbench {
     started: bool,
     pub(crate) allow_close: bool,
     pub(crate) quit_requested: bool,
+    /// Where copies of unsaved work are kept.
+    recovery: RecoveryStore,
     /// A copy of unsaved work from an earlier session, waiting for an answer.
-    pub(crate) recovery_offer: Option<PathBuf>,
-    /// Seconds between autosaves of unsaved work.
-    autosave_secs: f64,
-    /// When unsaved work was last kept, seconds of input time.
-    last_autosave: f64,
+    pub(crate) recovery_offer: Option<LeftBehind>,
+    /// The offered copy's project name and size, if it could be read.
+    pub(crate) recovery_summary: Option<String>,
+    /// How many more copies than the offered one were left behind.
+    pub(crate) more_left_behind: usize,
+    /// Seconds without an edit before unsaved work is kept.
+    autosave_idle_secs: f64,
+    /// The project as it was at the last edit, and when that was (seconds of input time).
+    last_edit: (Project, f64),
     /// The project as last kept for recovery.
     autosaved: Option<Project>,
+    /// After a failed autosave, no new attempt before this time (seconds of input time).
+    autosave_retry_at: f64,
+    /// A file problem shown until dismissed.
+    pub(crate) notice: Option<Notice>,
+    save_fault: Option<SaveFault>,
 }
 
-/// Default seconds between autosaves of unsaved work.
-const AUTOSAVE_SECS: f64 = 30.0;
+/// Default seconds of idle after the last edit before unsaved work is kept.
+pub const AUTOSAVE_IDLE_SECS: f64 = 3.0;
+/// Seconds before a failed autosave is tried again.
+const AUTOSAVE_RETRY_SECS: f64 = 30.0;
 
 impl Workbench {
-    /// A workbench on the demo project, with settings kept by `store`.
-    pub fn new(store: ConfigStore) -> Self {
-        Self::with_project(Project::demo(), store)
+    /// A workbench on the demo project, with settings kept by `store` and copies of unsaved work
+    /// by `recovery`.
+    pub fn new(store: ConfigStore, recovery: RecoveryStore) -> Self {
+        Self::with_stores(Project::demo(), store, recovery)
     }
 
-    /// A workbench on the given project (not yet saved anywhere).
+    /// A workbench on the given project (not yet saved anywhere) that keeps no copies of
+    /// unsaved work.
     pub fn with_project(project: Project, store: ConfigStore) -> Self {
+        Self::with_stores(project, store, RecoveryStore::none())
+    }
+
+    /// A workbench on the given project, with settings kept by `store` and copies of unsaved
+    /// work by `recovery`; a copy left behind by a crashed session is offered back.
+    pub fn with_stores(project: Project, store: ConfigStore, recovery: RecoveryStore) -> Self {
         let (config, problem) = store.load();
+        let project_copy = project.clone();
         let mut app = Self {
             saved: project.clone(),
             history: History::new(&project),
@@ -104,12 +146,18 @@ impl Workbench {
             started: false,
             allow_close: false,
             quit_requested: false,
+            last_edit: (project_copy, 0.0),
+            recovery,
             recovery_offer: None,
-            autosave_secs: AUTOSAVE_SECS,
-            last_autosave: 0.0,
+            recovery_summary: None,
+            more_left_behind: 0,
+            autosave_idle_secs: AUTOSAVE_IDLE_SECS,
             autosaved: None,
+            autosave_retry_at: 0.0,
+            notice: None,
+            save_fault: None,
         };
-        app.recovery_offer = app.store.recovery_file().filter(|f| f.exists());
+        app.look_for_left_behind();
         if let Some(problem) = problem {
             app.set_status(&problem, true);
         }
@@ -180,18 +228,69 @@ impl Workbench {
         self.quit_requested
     }
 
-    /// Sets how often unsaved work is kept for recovery (tests use 0).
-    pub fn set_autosave_secs(&mut self, secs: f64) {
-        self.autosave_secs = secs.max(0.0);
+    /// Sets how many seconds after the last edit unsaved work is kept for recovery.
+    pub fn set_autosave_idle_secs(&mut self, secs: f64) {
+        self.autosave_idle_secs = secs.max(0.0);
     }
 
     /// The copy of unsaved work from an earlier session, if one is offered.
     pub fn recovery_offer(&self) -> Option<&Path> {
-        self.recovery_offer.as_deref()
+        self.recovery_offer.as_ref().map(|l| l.path.as_path())
     }
 
-    pub(crate) fn store(&self) -> &ConfigStore {
-        &self.store
+    /// This session's copy of unsaved work (whether or not it exists yet).
+    pub fn recovery_file(&self) -> Option<PathBuf> {
+        self.recovery.session_file()
+    }
+
+    /// The file problem shown under the menu, if any.
+    pub fn notice(&self) -> Option<&Notice> {
+        self.notice.as_ref()
+    }
+
+    /// Makes every later save of a project file run `fault` between writing the temporary file
+    /// and renaming it, as a failing disk would (tests).
+    pub fn inject_save_fault(&mut self, fault: impl Fn(&Path) -> std::io::Result<()> + 'static) {
+        self.save_fault = Some(Box::new(fault));
+    }
+
+    pub(crate) fn save_fault(&self) -> Option<&SaveFault> {
+        self.save_fault.as_ref()
+    }
+
+    /// Offers the newest copy of unsaved work left behind by a session that did not close.
+    pub(crate) fn look_for_left_behind(&mut self) {
+        let mut left = self.recovery.left_behind();
+        self.more_left_behind = left.len().saturating_sub(1);
+        self.recovery_offer = (!left.is_empty()).then(|| left.remove(0));
+        self.recovery_summary = self.recovery_offer.as_ref().and_then(|offer| {
+            let project = self.read_project(&offer.path).ok()?;
+            let n = project.recipe.lines.len();
+            Some(format!(
+                "“{}”, {n} recipe line{}",
+                project.name,
+                if n == 1 { "" } else { "s" }
+            ))
+        });
+        if let Some(offer) = &self.recovery_offer {
+            eprintln!(
+                "saltwise: unsaved work from an earlier session is offered for recovery: {}",
+                offer.path.display()
+            );
+        }
+    }
+
+    /// This session's copy of unsaved work is no longer needed.
+    pub(crate) fn forget_autosave(&mut self) {
+        self.recovery.clear();
+        self.autosaved = None;
+    }
+
+    /// Takes a recovered copy as this session's own, so it is kept until saved.
+    pub(crate) fn adopt_autosave(&mut self, left: &Path) -> Result<(), String> {
+        self.recovery.adopt(left)?;
+        self.autosaved = Some(self.project.clone());
+        Ok(())
     }
 
     /// Whether there is an edit to undo.
@@ -207,6 +306,7 @@ impl Workbench {
     }
 
     pub(crate) fn replace_project(&mut self, project: Project, file: Option<PathBuf>) {
+        self.panels.refused.clear();
         self.saved = project.clone();
         self.history = History::new(&project);
         self.project = project;
@@ -222,8 +322,7 @@ impl Workbench {
 
     pub(crate) fn mark_saved(&mut self, path: PathBuf) {
         self.saved = self.project.clone();
-        self.store.clear_recovery();
-        self.autosaved = None;
+        self.forget_autosave();
         self.file = Some(path);
     }
 
@@ -269,7 +368,12 @@ impl Workbench {
                 .id_salt("results_scroll")
                 .auto_shrink([false, false])
                 .show(ui, |ui| {
-                    ui::readout::readout_ui(ui, &mut self.project.settings, &self.engine);
+                    ui::readout::readout_ui(
+                        ui,
+                        &mut self.project.settings,
+                        &self.engine,
+                        &mut self.panels.refused,
+                    );
                     ui::cautions::cautions_ui(ui, &self.project, &self.engine);
                     ui.add_space(6.0);
                     ui.columns(2, |cols| {
@@ -295,7 +399,7 @@ impl Workbench {
         let settled = !ctx.input(|i| i.pointer.any_down()) && ctx.memory(|m| m.focused().is_none());
         self.history.observe(&self.project, settled);
         self.track_window(&ctx);
-        self.autosave(&ctx, settled);
+        self.autosave(&ctx);
         if !self.queue.is_empty() {
             ctx.request_repaint();
         }
@@ -306,17 +410,37 @@ impl Workbench {
         }
     }
 
-    /// Keeps a copy of unsaved work now and then, so a crash loses little.
-    fn autosave(&mut self, ctx: &egui::Context, settled: bool) {
+    /// Keeps a copy of unsaved work a few seconds after the last edit, so a crash loses little.
+    fn autosave(&mut self, ctx: &egui::Context) {
         let now = ctx.input(|i| i.time);
-        let due = now - self.last_autosave >= self.autosave_secs;
-        if !(settled && due && self.is_dirty()) || self.autosaved.as_ref() == Some(&self.project) {
+        if self.last_edit.0 != self.project {
+            self.last_edit = (self.project.clone(), now);
+        }
+        if !self.is_dirty() {
+            // Back to what is on disk (an undo, a save): nothing needs recovering.
+            if self.autosaved.is_some() {
+                self.forget_autosave();
+            }
             return;
         }
-        self.last_autosave = now;
-        match self.store.write_recovery(&self.project) {
-            Ok(()) => self.autosaved = Some(self.project.clone()),
-            Err(e) => self.set_status(&e, true),
+        if self.autosaved.as_ref() == Some(&self.project) {
+            return;
+        }
+        let due = (self.last_edit.1 + self.autosave_idle_secs).max(self.autosave_retry_at);
+        if now < due {
+            // Come back when the edits have been idle long enough, even with no input.
+            ctx.request_repaint_after(std::time::Duration::from_secs_f64(due - now));
+            return;
+        }
+        match self.recovery.write(&self.project) {
+            Ok(()) => {
+                self.autosaved = Some(self.project.clone());
+                self.autosave_retry_at = 0.0;
+            }
+            Err(e) => {
+                self.autosave_retry_at = now + AUTOSAVE_RETRY_SECS;
+                self.set_status(&format!("{e}; trying again in 30 s"), true);
+            }
         }
     }
 
@@ -331,7 +455,7 @@ impl Workbench {
             });
         } else {
             self.allow_close = true;
-            self.store.clear_recovery();
+            self.forget_autosave();
             self.save_config();
         }
     }

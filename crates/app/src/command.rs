@@ -6,9 +6,9 @@
 
 use std::path::{Path, PathBuf};
 
-use saltwise_chem::project::Project;
+use saltwise_chem::project::{Project, write_atomic_with};
 
-use crate::app::{Prompt, Workbench};
+use crate::app::{Notice, Prompt, Workbench};
 
 /// A user action.
 #[derive(Debug, Clone, PartialEq)]
@@ -45,6 +45,8 @@ pub enum Command {
     Recover,
     /// Throw away the copy of unsaved work kept from an earlier session.
     DiscardRecovery,
+    /// Hide the file problem shown under the menu.
+    DismissNotice,
 }
 
 /// An answer to the unsaved-changes question.
@@ -65,6 +67,7 @@ pub(crate) enum Pending {
     OpenDemo,
     Open,
     OpenPath(PathBuf),
+    Recover,
     Quit,
 }
 
@@ -92,11 +95,13 @@ impl Workbench {
                 let _ = self.save_to(&p);
             }
             Command::Undo => {
+                self.panels.refused.clear();
                 if !self.history.undo(&mut self.project) {
                     self.set_status("nothing to undo", false);
                 }
             }
             Command::Redo => {
+                self.panels.refused.clear();
                 if !self.history.redo(&mut self.project) {
                     self.set_status("nothing to redo", false);
                 }
@@ -105,16 +110,32 @@ impl Workbench {
             Command::ZoomOut => self.set_zoom(ctx, self.config.zoom / ZOOM_STEP),
             Command::ZoomReset => self.set_zoom(ctx, 1.0),
             Command::Resolve(answer) => self.resolve(ctx, answer),
-            Command::Recover => self.recover(),
+            Command::Recover => self.guard(ctx, Pending::Recover),
             Command::DiscardRecovery => {
-                self.recovery_offer = None;
-                self.store().clear_recovery();
+                if let Some(offer) = self.recovery_offer.take() {
+                    if let Err(e) = std::fs::remove_file(&offer.path) {
+                        self.set_status(
+                            &format!("could not remove {}: {e}", offer.path.display()),
+                            true,
+                        );
+                    }
+                    self.look_for_left_behind();
+                }
             }
+            Command::DismissNotice => self.notice = None,
         }
     }
 
     /// Runs an action now, or asks about unsaved changes first.
     fn guard(&mut self, ctx: &egui::Context, action: Pending) {
+        if let Pending::OpenPath(path) = &action
+            && self.is_dirty()
+            && let Err(reason) = self.read_project(path)
+        {
+            // No point asking about unsaved changes for a file that cannot be opened.
+            self.refuse_open(path, reason);
+            return;
+        }
         if self.is_dirty() {
             self.prompt = Some(Prompt { action });
         } else {
@@ -157,10 +178,11 @@ impl Workbench {
                 }
             }
             Pending::OpenPath(path) => self.open_path(&path),
+            Pending::Recover => self.recover(),
             Pending::Quit => {
                 self.allow_close = true;
                 self.quit_requested = true;
-                self.store().clear_recovery();
+                self.forget_autosave();
                 self.save_config();
                 ctx.send_viewport_cmd(egui::ViewportCommand::Close);
             }
@@ -168,33 +190,70 @@ impl Workbench {
     }
 
     fn recover(&mut self) {
-        let Some(path) = self.recovery_offer.take() else {
+        let Some(offer) = self.recovery_offer.take() else {
             return;
         };
-        match Project::load(&path) {
+        match self.read_project(&offer.path) {
             Ok(project) => {
                 // Recovered work is unsaved work: it has no file yet and shows as changed.
                 self.replace_with_unsaved(project);
-                self.set_status(
-                    "recovered the unsaved work of the last session; save it to keep it",
-                    false,
-                );
+                self.notice = None;
+                match self.adopt_autosave(&offer.path) {
+                    Ok(()) => self.set_status(
+                        "recovered the unsaved work of the last session; save it to keep it",
+                        false,
+                    ),
+                    Err(e) => self.set_status(
+                        &format!("recovered; the kept copy stays where it was ({e})"),
+                        true,
+                    ),
+                }
+                self.look_for_left_behind();
             }
-            Err(e) => self.set_status(&format!("could not recover: {e}"), true),
+            Err(reason) => {
+                self.notice = Some(Notice {
+                    headline: "Could not recover the unsaved work".into(),
+                    reason,
+                    consequence: format!(
+                        "The open project is unchanged; the kept copy stays at {}.",
+                        offer.path.display()
+                    ),
+                });
+            }
         }
     }
 
+    /// Reads a project file as untrusted input: every problem comes back as the core words it.
+    pub(crate) fn read_project(&self, path: &Path) -> Result<Project, String> {
+        let base = self.engine.base_library().map_err(str::to_owned)?;
+        Project::load_with_library(path, base)
+            .map(|(project, _)| project)
+            .map_err(|e| e.to_string())
+    }
+
+    fn refuse_open(&mut self, path: &Path, reason: String) {
+        self.notice = Some(Notice {
+            headline: format!("Could not open {}", file_name(path)),
+            reason,
+            consequence:
+                "Nothing was changed: the open project is as it was, and the file was not modified."
+                    .into(),
+        });
+        self.set_status(&format!("could not open {}", path.display()), true);
+    }
+
     fn open_path(&mut self, path: &Path) {
-        match Project::load(path) {
+        match self.read_project(path) {
             Ok(project) => {
                 self.replace_project(project, Some(path.to_path_buf()));
+                self.notice = None;
                 self.config.push_recent(path);
                 self.save_config();
                 self.set_status(&format!("opened {}", path.display()), false);
             }
-            Err(e) => {
+            Err(reason) => {
                 self.config.recent_files.retain(|p| p != path || p.exists());
-                self.set_status(&format!("could not open: {e}"), true);
+                self.refuse_open(path, reason);
             }
         }
     }
@@ -226,19 +285,54 @@ impl Workbench {
         } else {
             path.to_path_buf()
         };
-        match self.project.save(&path) {
+        match self.write_project(&path) {
             Ok(()) => {
                 self.mark_saved(path.clone());
+                self.notice = None;
                 self.config.push_recent(&path);
                 self.save_config();
                 self.set_status(&format!("saved {}", path.display()), false);
                 true
             }
-            Err(e) => {
-                self.set_status(&format!("could not save: {e}"), true);
+            Err(reason) => {
+                self.notice = Some(Notice {
+                    headline: format!("Could not save {}", file_name(&path)),
+                    reason,
+                    consequence: "Nothing was lost: the project is still open with all its changes, not yet saved. Try again, or choose another place with Save as… in the File menu.".into(),
+                });
+                self.set_status(&format!("could not save {}", path.display()), true);
                 false
             }
         }
+    }
+
+    /// Writes the project atomically, the previous file kept as a backup; any injected fault
+    /// runs between writing the temporary file and renaming it.
+    fn write_project(&self, path: &Path) -> Result<(), String> {
+        if path.is_dir() {
+            return Err(format!(
+                "{} is a folder, not a file: choose a file name inside it",
+                path.display()
+            ));
+        }
+        let text = self
+            .project
+            .to_ron()
+            .map_err(|e| format!("the project could not be written as text: {e}"))?;
+        let fault = self.save_fault();
+        write_atomic_with(path, text.as_bytes(), true, |tmp| {
+            fault.map_or(Ok(()), |f| f(tmp))
+        })
+        .map_err(|e| match path.parent() {
+            Some(dir) if !dir.as_os_str().is_empty() && !dir.is_dir() => {
+                format!(
+                    "{}: the folder {} does not exist ({e})",
+                    path.display(),
+                    dir.display()
+                )
+            }
+            _ => format!("{}: {e}", path.display()),
+        })
     }
 
     fn set_zoom(&mut self, ctx: &egui::Context, zoom: f32) {
@@ -276,4 +370,12 @@ impl Workbench {
             format!("{stem}.ron")
         }
     }
+}
+
+/// The last part of a path, for headlines.
+fn file_name(path: &Path) -> String {
+    path.file_name().map_or_else(
+        || path.display().to_string(),
+        |n| n.to_string_lossy().into_owned(),
+    )
 }

@@ -2,7 +2,6 @@
 
 use std::path::{Path, PathBuf};
 
-use saltwise_chem::project::Project;
 use serde::{Deserialize, Serialize};
 
 /// Environment variable that overrides the config folder (tests and portable setups).
@@ -11,8 +10,6 @@ pub const CONFIG_DIR_ENV: &str = "SALTWISE_CONFIG_DIR";
 pub const MAX_RECENT: usize = 8;
 /// Name of the settings file inside the config folder.
 const FILE_NAME: &str = "workbench.ron";
-/// Name of the autosaved copy of unsaved work inside the config folder.
-const RECOVERY_NAME: &str = "recovery.ron";
 
 /// What the workbench remembers between sessions (never the project itself).
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -77,32 +74,6 @@ impl ConfigStore {
     /// The settings file, if there is a folder.
     pub fn file(&self) -> Option<PathBuf> {
         self.dir.as_ref().map(|d| d.join(FILE_NAME))
-    }
-
-    /// The autosaved copy of unsaved work, if there is a folder.
-    pub fn recovery_file(&self) -> Option<PathBuf> {
-        self.dir.as_ref().map(|d| d.join(RECOVERY_NAME))
-    }
-
-    /// Keeps a copy of unsaved work for recovery after a crash.
-    pub fn write_recovery(&self, project: &Project) -> Result<(), String> {
-        let (Some(dir), Some(file)) = (self.dir.as_ref(), self.recovery_file()) else {
-            return Ok(());
-        };
-        let text = project
-            .to_ron()
-            .map_err(|e| format!("unsaved work could not be kept: {e}"))?;
-        std::fs::create_dir_all(dir).map_err(|e| format!("{}: {e}", dir.display()))?;
-        saltwise_chem::project::write_atomic(&file, text.as_bytes(), false)
-            .map_err(|e| format!("{}: {e}", file.display()))
-    }
-
-    /// Removes the copy of unsaved work (after a clean exit or a save).
-    pub fn clear_recovery(&self) {
-        if let Some(file) = self.recovery_file() {
-            // A missing file is the usual case; nothing else can be done about a failure here.
-            let _ = std::fs::remove_file(file);
-        }
     }
 
     /// Reads the settings; a missing file gives the defaults, a broken one the defaults and why.

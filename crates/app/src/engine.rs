@@ -114,6 +114,11 @@ impl Engine {
         }
     }
 
+    /// The built-in library, before any custom ingredients.
+    pub fn base_library(&self) -> Result<&Library, &str> {
+        self.base.as_ref().map_err(String::as_str)
+    }
+
     /// The library the project is solved with (built-in plus its custom ingredients).
     pub fn library(&self) -> Result<&Library, &str> {
         self.library.as_ref().map_err(String::as_str)

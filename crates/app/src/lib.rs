@@ -13,12 +13,14 @@ mod command;
 mod config;
 mod engine;
 mod history;
+mod recovery;
 mod ui;
 
-pub use app::{Prompt, Workbench};
+pub use app::{AUTOSAVE_IDLE_SECS, Notice, Prompt, SaveFault, Workbench};
 pub use command::{Command, Resolution};
 pub use config::{CONFIG_DIR_ENV, ConfigStore, UserConfig};
 pub use engine::{CurveData, CurvePoint, Engine, SpeciesData};
+pub use recovery::{DATA_DIR_ENV, LeftBehind, RecoveryStore};
 
 use std::process::ExitCode;
 
@@ -42,7 +44,7 @@ pub fn run() -> ExitCode {
         "Saltwise",
         options,
         Box::new(move |_cc| {
-            let mut app = Workbench::new(store);
+            let mut app = Workbench::new(store, RecoveryStore::from_env());
             if let Some(path) = args.first() {
                 app.queue(Command::OpenPath(path.clone()));
             }

@@ -328,29 +328,3 @@ fn switching_a_line_from_percent_to_grams_keeps_its_mass() {
     let after = h.state().engine().solved().unwrap().solution.ph;
     assert!((after - ph).abs() < 1e-9, "same batch, same pH");
 }
-
-#[test]
-fn unsaved_work_is_kept_and_offered_back_after_a_crash() {
-    let dir = tempfile::tempdir().unwrap();
-    {
-        let mut h = harness(citric_project(), dir.path());
-        h.state_mut().set_autosave_secs(0.0);
-        h.get_by_label("Remove line 1").click();
-        h.run();
-        assert!(h.state().is_dirty());
-        // The harness is dropped here without quitting, as a crash would leave it.
-    }
-    let mut h = harness(Project::demo(), dir.path());
-    assert!(h.state().recovery_offer().is_some());
-    h.get_by_label("Recover it").click();
-    h.run();
-    assert_eq!(h.state().project().recipe.lines.len(), 1);
-    assert!(h.state().is_dirty(), "recovered work still needs saving");
-
-    // Saving it clears the kept copy, so the next session is not offered it again.
-    h.state_mut()
-        .queue(Command::SaveToPath(dir.path().join("kept.ron")));
-    h.run();
-    let next = harness(Project::demo(), dir.path());
-    assert!(next.state().recovery_offer().is_none());
-}

@@ -7,7 +7,7 @@ use saltwise_chem::Library;
 use saltwise_chem::library::ResolvedRelease;
 use saltwise_chem::project::Settings;
 
-use super::sig;
+use super::{Allowed, checked_drag, sig};
 use crate::app::PanelState;
 use crate::engine::Engine;
 
@@ -15,6 +15,13 @@ use crate::engine::Engine;
 pub fn chart_height(ui: &Ui) -> f32 {
     (ui.ctx().content_rect().height() - 600.0).clamp(240.0, 560.0)
 }
+/// What the largest dose may be, g.
+const LARGEST_DOSE: Allowed = Allowed {
+    min: 0.0,
+    min_exclusive: true,
+    max: 1.0e6,
+    rule: "the largest dose is above 0 g and at most 1 000 000 g",
+};
 /// Height of the buffer-capacity chart, points.
 const BUFFER_HEIGHT: f32 = 140.0;
 
@@ -36,11 +43,15 @@ pub fn dose_curve_ui(
     ui.horizontal_wrapped(|ui| {
         let label = ui.label("Largest dose");
         let speed = (settings.dose_max_g * 0.005).max(0.01);
-        ui.add(
+        checked_drag(
+            ui,
             DragValue::new(&mut settings.dose_max_g)
-                .range(0.001..=1.0e6)
+                .range(0.001..=LARGEST_DOSE.max)
                 .speed(speed)
                 .max_decimals(3),
+            "Largest dose",
+            LARGEST_DOSE,
+            &mut panels.refused,
         )
         .labelled_by(label.id);
         ui.label("g");

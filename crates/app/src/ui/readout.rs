@@ -5,14 +5,35 @@ use egui::{DragValue, RichText, Ui};
 use saltwise_chem::ActivityModel;
 use saltwise_chem::project::Settings;
 
-use super::sig;
+use super::{Allowed, Refusals, checked_drag, sig};
 use crate::engine::Engine;
 
 /// Width from which values and conditions fit on one row, points.
 const WIDE_POINTS: f32 = 860.0;
+/// What a temperature may be, °C.
+const TEMPERATURE: Allowed = Allowed {
+    min: 0.0,
+    min_exclusive: false,
+    max: 95.0,
+    rule: "the temperature model covers 0–95 °C",
+};
+/// What a target pH may be.
+const TARGET_PH: Allowed = Allowed {
+    min: -1.0,
+    min_exclusive: false,
+    max: 15.0,
+    rule: "a target pH is between −1 and 15",
+};
+/// What the half-width of the target band may be, pH units.
+const TOLERANCE: Allowed = Allowed {
+    min: 0.0,
+    min_exclusive: false,
+    max: 3.0,
+    rule: "the band is 0 to 3 pH units either side",
+};
 
 /// Draws the readout.
-pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
+pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine, refused: &mut Refusals) {
     egui::Frame::group(ui.style()).show(ui, |ui| {
         ui.set_width(ui.available_width());
         // Side by side when there is room; the conditions go under the values otherwise.
@@ -20,16 +41,24 @@ pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
             ui.horizontal(|ui| {
                 values_ui(ui, settings, engine);
                 ui.separator();
-                conditions_ui(ui, settings);
+                conditions_ui(ui, settings, refused);
             });
         } else {
             ui.horizontal(|ui| values_ui(ui, settings, engine));
             ui.separator();
-            conditions_ui(ui, settings);
+            conditions_ui(ui, settings, refused);
         }
-        if let Some(report) = engine.solved() {
+        if let Some(report) = engine.solved()
+            && !report.warnings.is_empty()
+        {
+            ui.separator();
+            ui.label(
+                RichText::new("Limits of this prediction")
+                    .strong()
+                    .color(super::WARN),
+            );
             for w in &report.warnings {
-                ui.colored_label(super::WARN, format!("Caution: {w}"));
+                ui.colored_label(super::WARN, w);
             }
         }
     });
@@ -91,6 +120,11 @@ fn values_ui(ui: &mut Ui, settings: &Settings, engine: &Engine) {
         Some(Err(e)) => {
             ui.vertical(|ui| {
                 ui.label(RichText::new("pH —").size(46.0).strong());
+                ui.label(
+                    RichText::new("No pH: the recipe cannot be solved as written.")
+                        .strong()
+                        .color(super::ERROR),
+                );
                 ui.colored_label(super::ERROR, e);
             });
         }
@@ -100,20 +134,24 @@ fn values_ui(ui: &mut Ui, settings: &Settings, engine: &Engine) {
     }
 }
 
-fn conditions_ui(ui: &mut Ui, settings: &mut Settings) {
+fn conditions_ui(ui: &mut Ui, settings: &mut Settings, refused: &mut Refusals) {
     egui::Grid::new("readout_conditions")
         .spacing([8.0, 4.0])
         .show(ui, |ui| {
             let label = ui.label("Temperature");
             ui.horizontal(|ui| {
-                ui.add(
+                checked_drag(
+                    ui,
                     DragValue::new(&mut settings.temp_c)
-                        .range(0.0..=95.0)
+                        .range(TEMPERATURE.min..=TEMPERATURE.max)
                         .speed(0.2)
-                        .max_decimals(1),
+                        .max_decimals(1)
+                        .suffix(" °C"),
+                    "Temperature",
+                    TEMPERATURE,
+                    refused,
                 )
                 .labelled_by(label.id);
-                ui.label("°C");
             });
             ui.end_row();
             ui.label("Activity model");
@@ -133,21 +171,27 @@ fn conditions_ui(ui: &mut Ui, settings: &mut Settings) {
             }
             ui.horizontal(|ui| {
                 if let Some(t) = settings.target_ph.as_mut() {
-                    ui.add(
+                    checked_drag(
+                        ui,
                         DragValue::new(t)
-                            .range(-1.0..=15.0)
+                            .range(TARGET_PH.min..=TARGET_PH.max)
                             .speed(0.01)
                             .max_decimals(2),
-                    )
-                    .on_hover_text("Target pH value");
+                        "Target pH value",
+                        TARGET_PH,
+                        refused,
+                    );
                     ui.label("±");
-                    ui.add(
+                    checked_drag(
+                        ui,
                         DragValue::new(&mut settings.target_tolerance)
-                            .range(0.0..=3.0)
+                            .range(TOLERANCE.min..=TOLERANCE.max)
                             .speed(0.01)
                             .max_decimals(2),
-                    )
-                    .on_hover_text("Target band half-width");
+                        "Target band half-width",
+                        TOLERANCE,
+                        refused,
+                    );
                 }
             });
             ui.end_row();

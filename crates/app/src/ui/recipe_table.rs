@@ -6,13 +6,27 @@ use saltwise_chem::library::Entry;
 use saltwise_chem::project::Project;
 use saltwise_chem::{Amount, Library, RecipeLine, Unit};
 
-use super::{named_button, sig};
+use super::{Allowed, Refusals, checked_drag, named_button, sig};
 use crate::app::PanelState;
 use crate::engine::Engine;
 use saltwise_chem::explain::{Effect, IngredientEffect};
 
 /// Most matches the picker lists at once.
 const PICKER_ROWS: usize = 40;
+/// What an amount may be.
+const AMOUNT: Allowed = Allowed {
+    min: 0.0,
+    min_exclusive: false,
+    max: 1.0e7,
+    rule: "an amount is a number from 0 to 10 000 000",
+};
+/// What a q.s. batch size may be.
+const BATCH: Allowed = Allowed {
+    min: 0.0,
+    min_exclusive: true,
+    max: 1.0e8,
+    rule: "a batch is above 0 g and at most 100 000 000 g",
+};
 
 enum RowAction {
     Up(usize),
@@ -40,9 +54,9 @@ pub fn recipe_panel_ui(
         .id_salt("recipe_scroll")
         .auto_shrink([false, false])
         .show(ui, |ui| {
-            lines_ui(ui, project, engine, library);
+            lines_ui(ui, project, engine, library, &mut panels.refused);
             ui.add_space(6.0);
-            batch_ui(ui, project, engine);
+            batch_ui(ui, project, engine, &mut panels.refused);
             let empty = project.recipe.lines.is_empty();
             if let (Some(Err(e)), false) = (engine.report(), empty) {
                 ui.add_space(4.0);
@@ -64,7 +78,13 @@ pub fn recipe_panel_ui(
         });
 }
 
-fn lines_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, library: &Library) {
+fn lines_ui(
+    ui: &mut Ui,
+    project: &mut Project,
+    engine: &Engine,
+    library: &Library,
+    refused: &mut Refusals,
+) {
     let report = engine.solved();
     let n = project.recipe.lines.len();
     if n == 0 {
@@ -126,7 +146,7 @@ fn lines_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, library: &Libra
                             ));
                         }
                         let before = line.amount;
-                        amount_ui(ui, &mut line.amount, row);
+                        amount_ui(ui, &mut line.amount, row, refused);
                         if line.amount.unit != before.unit {
                             // Keep the mass when only the unit changes.
                             let batch_g = report.map(|r| r.batch.total_mass_g);
@@ -178,6 +198,10 @@ fn lines_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, library: &Libra
                     }
                 });
         });
+    if action.is_some() {
+        // Row numbers move: a refusal would be shown beside the wrong line.
+        refused.retain(|name, _| !name.starts_with("Amount of line"));
+    }
     let lines = &mut project.recipe.lines;
     match action {
         Some(RowAction::Up(i)) if i > 0 => lines.swap(i - 1, i),
@@ -190,16 +214,21 @@ fn lines_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, library: &Libra
 }
 
 /// The amount of one line: a drag value (click it to type) and its unit.
-fn amount_ui(ui: &mut Ui, amount: &mut Amount, row: usize) {
+fn amount_ui(ui: &mut Ui, amount: &mut Amount, row: usize, refused: &mut Refusals) {
     let speed = drag_speed(*amount);
-    ui.add(
-        DragValue::new(&mut amount.value)
-            .range(0.0..=1.0e7)
-            .speed(speed)
-            .min_decimals(1)
-            .max_decimals(4),
-    )
-    .on_hover_text(format!("Amount of line {row}"));
+    ui.horizontal(|ui| {
+        checked_drag(
+            ui,
+            DragValue::new(&mut amount.value)
+                .range(AMOUNT.min..=AMOUNT.max)
+                .speed(speed)
+                .min_decimals(1)
+                .max_decimals(4),
+            &format!("Amount of line {row}"),
+            AMOUNT,
+            refused,
+        );
+    });
     egui::ComboBox::from_id_salt(("unit", row))
         .selected_text(unit_words(amount.unit))
         .width(58.0)
@@ -246,7 +275,7 @@ fn unit_words(unit: Unit) -> &'static str {
     }
 }
 
-fn batch_ui(ui: &mut Ui, project: &mut Project, engine: &Engine) {
+fn batch_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, refused: &mut Refusals) {
     let report = engine.solved();
     ui.horizontal_wrapped(|ui| {
         let mut qs = project.recipe.qs_to_g.is_some();
@@ -259,8 +288,13 @@ fn batch_ui(ui: &mut Ui, project: &mut Project, engine: &Engine) {
         }
         if let Some(size) = project.recipe.qs_to_g.as_mut() {
             let speed = (*size * 0.002).max(0.1);
-            ui.add(DragValue::new(size).range(0.001..=1.0e8).speed(speed))
-                .on_hover_text("Batch size");
+            checked_drag(
+                ui,
+                DragValue::new(size).range(0.001..=BATCH.max).speed(speed),
+                "Batch size",
+                BATCH,
+                refused,
+            );
             ui.label("g");
             if let Some(r) = report {
                 ui.label(format!("— water added: {} g", sig(r.batch.qs_water_g, 5)));

@@ -112,13 +112,20 @@ pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
                 });
             });
     }
-    if app.recovery_offer.is_some() {
+    if let Some(offer) = &app.recovery_offer {
         egui::Frame::group(ui.style())
             .fill(ui.visuals().warn_fg_color.gamma_multiply(0.15))
             .show(ui, |ui| {
                 ui.horizontal_wrapped(|ui| {
                     ui.label(
-                        RichText::new("Unsaved work from the last session was kept.").strong(),
+                        RichText::new(format!(
+                            "Unsaved work from a session that did not close was kept {}{}.",
+                            offer.age_words(),
+                            app.recovery_summary
+                                .as_ref()
+                                .map_or_else(String::new, |s| format!(": {s}"))
+                        ))
+                        .strong(),
                     );
                     if ui.button("Recover it").clicked() {
                         commands.push(Command::Recover);
@@ -127,6 +134,30 @@ pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
                         commands.push(Command::DiscardRecovery);
                     }
                 });
+                let more = if app.more_left_behind > 0 {
+                    format!(
+                        " ({} older copies are in the same folder.)",
+                        app.more_left_behind
+                    )
+                } else {
+                    String::new()
+                };
+                ui.weak(format!("Kept at {}.{more}", offer.path.display()));
+            });
+    }
+    if let Some(notice) = &app.notice {
+        egui::Frame::group(ui.style())
+            .fill(super::ERROR.gamma_multiply(0.12))
+            .show(ui, |ui| {
+                ui.set_width(ui.available_width());
+                ui.horizontal_wrapped(|ui| {
+                    ui.label(RichText::new(&notice.headline).strong().color(super::ERROR));
+                    if ui.button("Dismiss").clicked() {
+                        commands.push(Command::DismissNotice);
+                    }
+                });
+                ui.label(&notice.reason);
+                ui.label(RichText::new(&notice.consequence).weak());
             });
     }
     if let Some(status) = &app.status {
