@@ -98,17 +98,8 @@ impl<'a> Doser<'a> {
             .map(|(i, (b, p))| (i, *b, *p))
             .collect();
         let sums = |t: &Totals| {
-            let mut s = [0.0; 4];
-            for (i, &mol) in t.ion_mol.iter().enumerate() {
-                if mol > 0.0 && !library.is_proton_ion(i) {
-                    let z = f64::from(library.ions()[i].charge);
-                    s[0] += z * mol;
-                    s[1] += z * z * mol;
-                    s[2] += z.abs() * mol;
-                }
-            }
-            s[3] = t.proton_excess_mol;
-            s
+            let [charge, z2, abs_charge] = t.spectator_sums(library);
+            [charge, z2, abs_charge, t.proton_excess_mol]
         };
         Ok(Self {
             constants,

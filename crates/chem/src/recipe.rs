@@ -217,6 +217,20 @@ impl Totals {
         }
     }
 
+    /// Σ z·n, Σ z²·n and Σ |z|·n over the spectator ions, in mol (hydron and hydroxide excluded).
+    pub fn spectator_sums(&self, library: &Library) -> [f64; 3] {
+        let mut s = [0.0; 3];
+        for (i, &mol) in self.ion_mol.iter().enumerate() {
+            if mol > 0.0 && !library.is_proton_ion(i) {
+                let z = f64::from(library.ions()[i].charge);
+                s[0] += z * mol;
+                s[1] += z * z * mol;
+                s[2] += z.abs() * mol;
+            }
+        }
+        s
+    }
+
     /// Molal totals for the solver; `None` when there is no water.
     pub fn composition(&self, library: &Library) -> Option<Composition> {
         if self.water_kg.partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
@@ -234,15 +248,10 @@ impl Totals {
             proton_excess: self.proton_excess_mol / w,
             ..Composition::default()
         };
-        for (i, &mol) in self.ion_mol.iter().enumerate() {
-            if mol > 0.0 && !library.is_proton_ion(i) {
-                let z = f64::from(library.ions()[i].charge);
-                let m = mol / w;
-                c.spectator_charge += z * m;
-                c.spectator_z2 += z * z * m;
-                c.spectator_abs_charge += z.abs() * m;
-            }
-        }
+        let [charge, z2, abs_charge] = self.spectator_sums(library);
+        c.spectator_charge = charge / w;
+        c.spectator_z2 = z2 / w;
+        c.spectator_abs_charge = abs_charge / w;
         Some(c)
     }
 }
