@@ -17,6 +17,7 @@ pub mod library;
 pub mod project;
 pub mod recipe;
 pub mod report;
+pub mod reserve;
 pub mod solver;
 
 pub use error::{DoseError, FormulaError, LibraryError, ProjectError, RecipeError};

@@ -55,6 +55,10 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
     let s = &report.solution;
     let effects = explain(lib, &constants, &report.batch);
     let warn = cautions(lib, &report.batch, Some(s));
+    // The reserve is a screening extra: a product it cannot be computed for simply has none.
+    let reserve = saltwise_chem::reserve::reserve(lib, &constants, &report.batch, s.ph)
+        .ok()
+        .flatten();
     if args.json {
         let v = json!({
             "ph": s.ph,
@@ -75,6 +79,13 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
                 "reason": e.summary,
             })).collect::<Vec<_>>(),
             "warnings": report.warnings,
+            "reserve": reserve.map(|r| json!({
+                "side": format!("{:?}", r.side).to_lowercase(),
+                "g_naoh_per_100g": r.g_naoh_per_100g,
+                "indicator": r.indicator,
+                "flagged": r.flagged,
+                "caution": saltwise_chem::reserve::caution_text(&r),
+            })),
             "cautions": warn.iter().map(|c| json!({"title": c.title, "text": c.text})).collect::<Vec<_>>(),
         });
         print_stdout(&format!("{}\n", serde_json::to_string_pretty(&v)?))?;
@@ -128,6 +139,9 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
     }
     for w in &report.warnings {
         t += &format!("\nwarning: {w}\n");
+    }
+    if let Some(r) = &reserve {
+        t += &format!("\n{}\n", saltwise_chem::reserve::caution_text(r));
     }
     if !warn.is_empty() {
         t += "\ncautions\n";
