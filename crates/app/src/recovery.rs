@@ -170,10 +170,28 @@ fn session_pid(name: &str) -> Option<u32> {
     pid.parse().ok()
 }
 
-/// Whether a process with this number is running (Linux: `/proc`; elsewhere assumed not, so a
-/// second window may be offered the first one's copy).
+/// Whether a workbench with this process number is running. On Linux, `/proc` tells: a process
+/// that has ended but not been reaped yet (a zombie), or an unrelated program that was given the
+/// same number later, does not count. Elsewhere no process counts as running, so a second
+/// window may be offered the first one's copy.
 fn process_is_running(pid: u32) -> bool {
-    cfg!(target_os = "linux") && Path::new("/proc").join(pid.to_string()).exists()
+    if !cfg!(target_os = "linux") {
+        return false;
+    }
+    let proc_dir = Path::new("/proc").join(pid.to_string());
+    let Ok(stat) = std::fs::read_to_string(proc_dir.join("stat")) else {
+        return false;
+    };
+    // The state letter follows the command name, which is in parentheses and may hold spaces.
+    let state = stat
+        .rfind(')')
+        .and_then(|i| stat.get(i + 1..))
+        .and_then(|rest| rest.split_whitespace().next());
+    if matches!(state, Some("Z" | "X" | "x") | None) {
+        return false;
+    }
+    let command = |dir: &Path| std::fs::read_to_string(dir.join("comm")).ok();
+    command(&proc_dir) == command(Path::new("/proc/self"))
 }
 
 #[cfg(test)]
@@ -189,11 +207,11 @@ mod tests {
     }
 
     #[test]
-    fn a_running_sessions_copy_is_not_offered_but_a_dead_ones_is() {
+    fn copies_of_ended_sessions_are_offered_and_this_sessions_own_is_not() {
         let dir = tempfile::tempdir().expect("temp dir");
         let a = RecoveryStore::at(dir.path());
         a.write(&Project::demo()).expect("write");
-        // PID 1 is always running on Linux; a copy named after it belongs to a live session.
+        // PID 1 is running, but it is not a workbench: its copy is from a session that ended.
         std::fs::write(dir.path().join("unsaved-1-0.ron"), "x").expect("write");
         // No process has a number this large.
         std::fs::write(dir.path().join("unsaved-4000000000-0.ron"), "x").expect("write");
@@ -216,13 +234,19 @@ mod tests {
                 .any(|n| a.session_file().expect("file").ends_with(n)),
             "a dropped workbench of this process counts as ended"
         );
-        if cfg!(target_os = "linux") {
-            assert!(!offered.contains(&"unsaved-1-0.ron".to_owned()));
-        }
+        assert!(offered.contains(&"unsaved-1-0.ron".to_owned()));
         assert!(
             a.left_behind()
                 .iter()
                 .all(|l| Some(&l.path) != a.session_file().as_ref())
         );
+    }
+
+    #[cfg(target_os = "linux")]
+    #[test]
+    fn a_running_workbench_is_told_apart_from_ended_ones() {
+        // This test process runs the same program as itself, and is not a zombie.
+        assert!(process_is_running(std::process::id()));
+        assert!(!process_is_running(4_000_000_000));
     }
 }

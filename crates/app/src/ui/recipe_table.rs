@@ -46,7 +46,7 @@ pub fn recipe_panel_ui(
     let library = match engine.library() {
         Ok(lib) => lib,
         Err(e) => {
-            ui.colored_label(super::ERROR, e);
+            ui.colored_label(super::ERROR, format!("The recipe cannot be shown: {e}"));
             return;
         }
     };

@@ -116,33 +116,34 @@ pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
         egui::Frame::group(ui.style())
             .fill(ui.visuals().warn_fg_color.gamma_multiply(0.15))
             .show(ui, |ui| {
+                ui.set_width(ui.available_width());
+                ui.label(
+                    RichText::new(format!(
+                        "Unsaved work from a session that did not close was kept {}{}.",
+                        offer.age_words(),
+                        app.recovery_summary
+                            .as_ref()
+                            .map_or_else(String::new, |s| format!(": {s}"))
+                    ))
+                    .strong(),
+                );
                 ui.horizontal_wrapped(|ui| {
-                    ui.label(
-                        RichText::new(format!(
-                            "Unsaved work from a session that did not close was kept {}{}.",
-                            offer.age_words(),
-                            app.recovery_summary
-                                .as_ref()
-                                .map_or_else(String::new, |s| format!(": {s}"))
-                        ))
-                        .strong(),
-                    );
                     if ui.button("Recover it").clicked() {
                         commands.push(Command::Recover);
                     }
                     if ui.button("Throw it away").clicked() {
                         commands.push(Command::DiscardRecovery);
                     }
+                    let more = if app.more_left_behind > 0 {
+                        format!(
+                            " ({} older copies are in the same folder.)",
+                            app.more_left_behind
+                        )
+                    } else {
+                        String::new()
+                    };
+                    ui.weak(format!("Kept at {}.{more}", offer.path.display()));
                 });
-                let more = if app.more_left_behind > 0 {
-                    format!(
-                        " ({} older copies are in the same folder.)",
-                        app.more_left_behind
-                    )
-                } else {
-                    String::new()
-                };
-                ui.weak(format!("Kept at {}.{more}", offer.path.display()));
             });
     }
     if let Some(notice) = &app.notice {
