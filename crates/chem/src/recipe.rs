@@ -206,17 +206,6 @@ impl Totals {
         }
     }
 
-    /// `self + k · other`.
-    pub fn plus_scaled(&self, other: &Self, k: f64) -> Self {
-        let zip = |a: &[f64], b: &[f64]| a.iter().zip(b).map(|(x, y)| x + k * y).collect();
-        Self {
-            water_kg: self.water_kg + k * other.water_kg,
-            system_mol: zip(&self.system_mol, &other.system_mol),
-            ion_mol: zip(&self.ion_mol, &other.ion_mol),
-            proton_excess_mol: self.proton_excess_mol + k * other.proton_excess_mol,
-        }
-    }
-
     /// Σ z·n, Σ z²·n and Σ |z|·n over the spectator ions, in mol (hydron and hydroxide excluded).
     pub fn spectator_sums(&self, library: &Library) -> [f64; 3] {
         let mut s = [0.0; 3];

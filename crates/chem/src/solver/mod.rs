@@ -293,7 +293,3 @@ pub fn fractions_against_ph(
         .collect()
 }
 
-/// The largest charge magnitude the solver supports.
-pub fn max_charge() -> i32 {
-    MAX_CHARGE
-}
