@@ -61,6 +61,29 @@ mod tests {
     }
 
     #[test]
+    fn pkw_at_atmospheric_pressure_matches_the_reference_table() {
+        // pKw at 0.1 MPa from Python `thermo` (Kweq_IAPWS with IAPWS-95 density; 100 °C at
+        // saturation), shared/reference/check-values.md §2; tolerance 0.005 (spec).
+        for (t, expected) in [
+            (0.0, 14.946),
+            (10.0, 14.534),
+            (15.0, 14.344),
+            (20.0, 14.165),
+            (25.0, 13.995),
+            (30.0, 13.833),
+            (37.0, 13.621),
+            (40.0, 13.534),
+            (50.0, 13.264),
+            (60.0, 13.020),
+            (80.0, 12.598),
+            (100.0, 12.252),
+        ] {
+            let got = pkw(t);
+            assert!((got - expected).abs() < 0.005, "{t} °C: {got} vs {expected}");
+        }
+    }
+
+    #[test]
     fn kell_density_near_iapws95() {
         // IAPWS-95 liquid density at 0.1 MPa via Python `chemicals.iapws.iapws95_rho`.
         for (t, rho) in [
