@@ -1,8 +1,15 @@
 #!/usr/bin/env bash
-# Exactly what CI runs: format, lints, the test suite, and the Python reference checks.
+# Exactly what CI runs: format, lints, the test suite, the workbench kill-and-recover check under
+# Xvfb, and the Python reference checks.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 cargo fmt --all -- --check
 cargo clippy --workspace --all-targets -- -D warnings
 cargo test --workspace
+# The real workbench killed with SIGKILL and restarted under Xvfb: its unsaved work is offered back.
+if command -v Xvfb >/dev/null 2>&1 && command -v xdotool >/dev/null 2>&1; then
+    crates/app/scripts/kill_and_recover.sh 2
+else
+    echo "check.sh: kill-and-recover skipped (needs Xvfb and xdotool; CI installs them)" >&2
+fi
 tests/python/run.sh
