@@ -20,7 +20,7 @@ pub const HYDROXIDE: &str = "hydroxide";
 pub const WATER: &str = "water";
 
 /// Most acid steps a system may have.
-const MAX_STEPS: usize = 10;
+pub const MAX_STEPS: usize = 10;
 
 /// A release resolved to library indices.
 #[derive(Debug, Clone, Copy, PartialEq)]

@@ -292,4 +292,3 @@ pub fn fractions_against_ph(
         })
         .collect()
 }
-

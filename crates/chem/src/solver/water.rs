@@ -79,7 +79,10 @@ mod tests {
             (100.0, 12.252),
         ] {
             let got = pkw(t);
-            assert!((got - expected).abs() < 0.005, "{t} °C: {got} vs {expected}");
+            assert!(
+                (got - expected).abs() < 0.005,
+                "{t} °C: {got} vs {expected}"
+            );
         }
     }
 
