@@ -3,6 +3,7 @@
 use saltwise_chem::library::{LibraryData, form_names};
 use saltwise_chem::project::Project;
 use saltwise_chem::report::{self, Report};
+use saltwise_chem::reserve;
 use saltwise_chem::solver::{self, Conditions, Constants};
 use saltwise_chem::{Library, Recipe};
 
@@ -252,6 +253,25 @@ impl Engine {
             }
             if let Ok(report) = &result {
                 self.cautions = hazard::cautions(library, &report.batch, Some(&report.solution));
+                // Below pH 4 or above pH 10, the reserve says how strongly the product resists
+                // neutralising; it goes before the closing safety-data line.
+                let reserve = self.constants.as_ref().and_then(|constants| {
+                    reserve::reserve(library, constants, &report.batch, report.solution.ph)
+                        .ok()
+                        .flatten()
+                });
+                if let Some(r) = reserve {
+                    if self.cautions.is_empty() {
+                        self.cautions.push(reserve::caution(&r));
+                        self.cautions.push(Caution {
+                            title: "Safety data".into(),
+                            text: hazard::DEFER.into(),
+                        });
+                    } else {
+                        let at = self.cautions.len() - 1;
+                        self.cautions.insert(at, reserve::caution(&r));
+                    }
+                }
             }
             self.report = Some((key.clone(), result));
         }

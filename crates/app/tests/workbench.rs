@@ -328,3 +328,22 @@ fn switching_a_line_from_percent_to_grams_keeps_its_mass() {
     let after = h.state().engine().solved().unwrap().solution.ph;
     assert!((after - ph).abs() < 1e-9, "same batch, same pH");
 }
+
+#[test]
+fn a_product_below_ph_4_shows_its_acid_reserve_among_the_cautions() {
+    let dir = tempfile::tempdir().unwrap();
+    // The demo cleanser base sits below pH 4 before its pH is adjusted.
+    let mut h = harness(Project::demo(), dir.path());
+    h.run();
+    h.get_by_label_contains("Acid reserve");
+    h.get_by_label_contains("screening indicator (Young et al. 1988), not a classification");
+    // Raised to pH 5 with sodium hydroxide it has none.
+    let mut adjusted = Project::demo();
+    adjusted
+        .recipe
+        .lines
+        .push(RecipeLine::grams("sodium_hydroxide_50", 5.445));
+    let mut h = harness(adjusted, dir.path());
+    h.run();
+    assert!(h.query_by_label_contains("Acid reserve").is_none());
+}

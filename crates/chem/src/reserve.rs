@@ -9,6 +9,7 @@ use serde::Serialize;
 
 use crate::curve::Doser;
 use crate::error::DoseError;
+use crate::hazard::Caution;
 use crate::library::Library;
 use crate::recipe::Batch;
 use crate::solver::Constants;
@@ -105,4 +106,16 @@ pub fn caution_text(r: &Reserve) -> String {
             "below the threshold that points to corrosive"
         }
     )
+}
+
+/// The reserve as a caution for a cautions list.
+pub fn caution(r: &Reserve) -> Caution {
+    let title = match r.side {
+        Side::Acid => "Acid reserve",
+        Side::Alkaline => "Alkaline reserve",
+    };
+    Caution {
+        title: title.into(),
+        text: caution_text(r),
+    }
 }
