@@ -90,12 +90,12 @@ pub fn reserve(
 
 /// The caution that goes with a reserve, in plain words.
 pub fn caution_text(r: &Reserve) -> String {
-    let (what, end) = match r.side {
-        Side::Acid => ("acid reserve", ACID_END_PH),
-        Side::Alkaline => ("alkaline reserve", ALKALINE_END_PH),
+    let end = match r.side {
+        Side::Acid => ACID_END_PH,
+        Side::Alkaline => ALKALINE_END_PH,
     };
     format!(
-        "{what}: {:.2} g NaOH-equivalent per 100 g to reach pH {end}; screening value {:.2} ({}). \
+        "{:.2} g NaOH-equivalent per 100 g brings the product to pH {end}; screening value {:.2} ({}). \
          This is a screening indicator (Young et al. 1988), not a classification: classification \
          follows the applicable regulations and test data.",
         r.g_naoh_per_100g,

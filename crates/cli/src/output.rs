@@ -141,7 +141,8 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
         t += &format!("\nwarning: {w}\n");
     }
     if let Some(r) = &reserve {
-        t += &format!("\n{}\n", saltwise_chem::reserve::caution_text(r));
+        let c = saltwise_chem::reserve::caution(r);
+        t += &format!("\n{}: {}\n", c.title, c.text);
     }
     if !warn.is_empty() {
         t += "\ncautions\n";

@@ -18,7 +18,12 @@ pub fn cautions_ui(ui: &mut Ui, project: &Project, engine: &Engine) {
     };
     let mut cautions: Vec<Caution> = engine.cautions().to_vec();
     if let Some(c) = adjuster_caution(project, library) {
-        cautions.push(c);
+        // Before the closing safety-data line, which stays last.
+        let at = cautions
+            .iter()
+            .rposition(|c| c.text == saltwise_chem::hazard::DEFER)
+            .unwrap_or(cautions.len());
+        cautions.insert(at, c);
     }
     egui::Frame::group(ui.style()).show(ui, |ui| {
         ui.set_width(ui.available_width());
