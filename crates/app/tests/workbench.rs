@@ -4,8 +4,11 @@
     reason = "tests fail loudly on a missing widget or file"
 )]
 
+mod common;
+
 use std::path::Path;
 
+use common::{citric_project, type_into};
 use egui::{Key, Modifiers};
 use egui_kittest::Harness;
 use egui_kittest::kittest::Queryable as _;
@@ -22,21 +25,6 @@ fn harness(project: Project, config_dir: &Path) -> Harness<'static, Workbench> {
         )
 }
 
-/// A bench recipe of ingredients every library has: water and citric acid.
-fn citric_project() -> Project {
-    Project {
-        name: "Citric rinse".into(),
-        recipe: Recipe {
-            lines: vec![
-                RecipeLine::grams("water", 900.0),
-                RecipeLine::grams("citric_acid_monohydrate", 10.0),
-            ],
-            qs_to_g: None,
-        },
-        ..Project::default()
-    }
-}
-
 fn expected_ph(project: &Project) -> f64 {
     let library = Library::built_in().unwrap();
     let conditions = Conditions {
@@ -47,16 +35,6 @@ fn expected_ph(project: &Project) -> f64 {
         .unwrap()
         .solution
         .ph
-}
-
-fn type_into(harness: &mut Harness<'_, Workbench>, label: &str, text: &str) {
-    harness.get_by_label(label).focus();
-    harness.run();
-    harness.key_press_modifiers(Modifiers::COMMAND, Key::A);
-    harness.get_by_label(label).type_text(text);
-    harness.run();
-    harness.key_press(Key::Enter);
-    harness.run();
 }
 
 #[test]
