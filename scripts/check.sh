@@ -8,7 +8,8 @@ cargo clippy --workspace --all-targets -- -D warnings
 cargo test --workspace
 # The real workbench killed with SIGKILL and restarted under Xvfb: its unsaved work is offered back.
 if command -v Xvfb >/dev/null 2>&1 && command -v xdotool >/dev/null 2>&1; then
-    crates/app/scripts/kill_and_recover.sh 2
+    # `cargo test` has just built target/debug/saltwise; reuse it rather than build again.
+    SALTWISE_BIN=target/debug/saltwise crates/app/scripts/kill_and_recover.sh 2
 else
     echo "check.sh: kill-and-recover skipped (needs Xvfb and xdotool; CI installs them)" >&2
 fi

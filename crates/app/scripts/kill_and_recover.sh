@@ -8,7 +8,8 @@
 # the window title. Screenshots of both starts go to target/kill-and-recover/.
 #
 # Usage: crates/app/scripts/kill_and_recover.sh [ROUNDS]   (default 1; PROFILE=release to use
-# the release build). Needs Xvfb and xdotool (installed with apt-get when missing); ImageMagick's
+# the release build; SALTWISE_BIN=PATH to use a binary already built). Needs Xvfb and xdotool
+# (installed with apt-get when missing); ImageMagick's
 # `import`, when present, takes the screenshots. About 11 s a round on 2 cores, debug build.
 set -euo pipefail
 cd "$(dirname "$0")/../../.."
@@ -21,12 +22,17 @@ if ! need Xvfb || ! need xdotool; then
     apt-get install -y -qq --no-install-recommends xvfb xdotool >/dev/null
 fi
 shot() { if need import; then import -window root "$1"; fi; }
-if [ "$profile" = release ]; then
-    cargo build --release -p saltwise
+if [ -n "${SALTWISE_BIN:-}" ]; then
+    # A binary already built (CI passes the one `cargo test` built, saving a second build).
+    bin=$(realpath "$SALTWISE_BIN")
 else
-    cargo build -p saltwise
+    if [ "$profile" = release ]; then
+        cargo build --release -p saltwise
+    else
+        cargo build -p saltwise
+    fi
+    bin=$PWD/target/$profile/saltwise
 fi
-bin=$PWD/target/$profile/saltwise
 out=$PWD/target/kill-and-recover
 mkdir -p "$out"
 
