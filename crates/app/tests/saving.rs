@@ -19,6 +19,15 @@ fn idle_steps() -> usize {
     (AUTOSAVE_IDLE_SECS / STEP_SECS).ceil() as usize + 2
 }
 
+/// A session that edits the citric rinse, idles until its copy is written, then ends
+/// without saving (as a crash would leave it).
+fn leave_unsaved_copy(folders: &Folders) {
+    let mut h = harness_in(citric_project(), folders);
+    h.get_by_label("Remove line 1").click();
+    h.run();
+    h.run_steps(idle_steps());
+}
+
 #[test]
 fn a_save_into_a_folder_that_is_gone_is_explained_and_the_work_stays_open_and_unsaved() {
     let dir = tempfile::tempdir().unwrap();
@@ -241,12 +250,7 @@ fn after_a_crash_the_next_start_offers_the_unsaved_work_back() {
 fn recovering_over_unsaved_changes_asks_first() {
     let dir = tempfile::tempdir().unwrap();
     let folders = Folders::under(dir.path());
-    {
-        let mut h = harness_in(citric_project(), &folders);
-        h.get_by_label("Remove line 1").click();
-        h.run();
-        h.run_steps(idle_steps());
-    }
+    leave_unsaved_copy(&folders);
     let mut h = harness_in(Project::demo(), &folders);
     h.get_by_label("Remove line 4").click();
     h.run();
@@ -267,12 +271,7 @@ fn recovering_over_unsaved_changes_asks_first() {
 fn throwing_the_kept_copy_away_removes_it() {
     let dir = tempfile::tempdir().unwrap();
     let folders = Folders::under(dir.path());
-    {
-        let mut h = harness_in(citric_project(), &folders);
-        h.get_by_label("Remove line 1").click();
-        h.run();
-        h.run_steps(idle_steps());
-    }
+    leave_unsaved_copy(&folders);
     let mut h = harness_in(Project::demo(), &folders);
     h.get_by_label("Throw it away").click();
     h.run();
