@@ -12,9 +12,9 @@ use crate::engine::Engine;
 const WIDE_POINTS: f32 = 860.0;
 /// What a temperature may be, °C.
 const TEMPERATURE: Allowed = Allowed {
-    min: 0.0,
+    min: saltwise_chem::solver::TEMP_MIN_C,
     min_exclusive: false,
-    max: 95.0,
+    max: saltwise_chem::solver::TEMP_MAX_C,
     rule: "the temperature model covers 0–95 °C",
 };
 /// What a target pH may be.
