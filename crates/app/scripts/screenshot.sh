@@ -2,6 +2,8 @@
 # Takes PNG screenshots of the workbench under a virtual X display (no GPU needed: glow on Mesa's
 # software OpenGL). Usage: crates/app/scripts/screenshot.sh [PROJECT.ron OUTPUT.png]...
 # With no arguments it shoots the built-in demo and the second demo project in assets/demo/.
+# SALTWISE_BIN=path uses a binary already built; SCREEN=WxHxD sets the screen size and
+# WINDOW=W,H the window's.
 set -euo pipefail
 cd "$(dirname "$0")/../../.."
 
@@ -11,8 +13,13 @@ if ! need Xvfb || ! need import; then
     apt-get install -y -qq --no-install-recommends xvfb x11-apps imagemagick
 fi
 
-cargo build --release -p saltwise
-bin=./target/release/saltwise
+# SALTWISE_BIN runs a binary already built (a debug build is enough to look at the layout).
+if [ -n "${SALTWISE_BIN:-}" ]; then
+    bin=$SALTWISE_BIN
+else
+    cargo build --release -p saltwise
+    bin=./target/release/saltwise
+fi
 
 if [ "$#" -eq 0 ]; then
     set -- "" docs/screenshots/main-demo.png \
@@ -20,7 +27,8 @@ if [ "$#" -eq 0 ]; then
 fi
 
 display=:99
-Xvfb "$display" -screen 0 1600x1000x24 -nolisten tcp &
+# SCREEN sets the size of the virtual screen, e.g. 640x480x24 for the smallest window.
+Xvfb "$display" -screen 0 "${SCREEN:-1600x1000x24}" -nolisten tcp &
 xvfb_pid=$!
 config_dir=$(mktemp -d)
 cleanup() {
@@ -28,6 +36,10 @@ cleanup() {
     rm -rf "$config_dir"
 }
 trap cleanup EXIT
+# WINDOW=W,H opens the window at that size (the settings file the workbench reads at start).
+if [ -n "${WINDOW:-}" ]; then
+    printf '(window_size: Some((%s)))\n' "$WINDOW" >"$config_dir/workbench.ron"
+fi
 sleep 2
 
 while [ "$#" -ge 2 ]; do

@@ -6,9 +6,14 @@
 
 use std::path::{Path, PathBuf};
 
+use saltwise_chem::library::{Ingredient, System};
 use saltwise_chem::project::{Project, write_atomic_with};
+use saltwise_chem::{RecipeLine, Unit};
 
-use crate::app::{Notice, Prompt, Workbench};
+use crate::app::Workbench;
+use crate::document::file_name;
+use crate::engine::Engine;
+use crate::messages::{Notice, Pending};
 
 /// A user action.
 #[derive(Debug, Clone, PartialEq)]
@@ -47,6 +52,47 @@ pub enum Command {
     DiscardRecovery,
     /// Hide the file problem shown under the menu.
     DismissNotice,
+    /// Change the recipe in one undoable step.
+    Edit(RecipeEdit),
+}
+
+/// A discrete change to the recipe: one undo step each. Drags and typing edit the project
+/// directly and are recorded when they settle.
+#[derive(Debug, Clone, PartialEq)]
+pub enum RecipeEdit {
+    /// Add a line at the end.
+    AddLine(RecipeLine),
+    /// Add a custom acid–base system and its ingredient to the project, and a line of it.
+    AddCustom {
+        /// The system.
+        system: System,
+        /// The ingredient that releases it.
+        ingredient: Box<Ingredient>,
+    },
+    /// Remove a line (by index).
+    RemoveLine(usize),
+    /// Move a line one place up.
+    MoveUp(usize),
+    /// Move a line one place down.
+    MoveDown(usize),
+    /// Switch a line on or off.
+    SetEnabled {
+        /// Line index.
+        line: usize,
+        /// Whether it counts.
+        enabled: bool,
+    },
+    /// Give a line's amount in another unit, keeping its mass where it can be known.
+    SetUnit {
+        /// Line index.
+        line: usize,
+        /// The new unit.
+        unit: Unit,
+    },
+    /// Fill the batch with water to a total mass, or stop doing so.
+    SetQs(bool),
+    /// Add the dose that reaches the target pH to the recipe.
+    ApplyDose,
 }
 
 /// An answer to the unsaved-changes question.
@@ -58,17 +104,6 @@ pub enum Resolution {
     Discard,
     /// Do nothing.
     Cancel,
-}
-
-/// What waits for the unsaved-changes answer.
-#[derive(Debug, Clone, PartialEq)]
-pub(crate) enum Pending {
-    New,
-    OpenDemo,
-    Open,
-    OpenPath(PathBuf),
-    Recover,
-    Quit,
 }
 
 /// Smallest and largest zoom factors.
@@ -86,24 +121,24 @@ impl Workbench {
             Command::OpenPath(p) => self.guard(ctx, Pending::OpenPath(p)),
             Command::Quit => self.guard(ctx, Pending::Quit),
             Command::Save => {
-                let _ = self.save(ctx);
+                let _ = self.save();
             }
             Command::SaveAs => {
-                let _ = self.save_as_dialog(ctx);
+                let _ = self.save_as_dialog();
             }
             Command::SaveToPath(p) => {
                 let _ = self.save_to(&p);
             }
             Command::Undo => {
                 self.panels.refused.clear();
-                if !self.history.undo(&mut self.project) {
-                    self.set_status("nothing to undo", false);
+                if !self.doc.undo() {
+                    self.messages.status("Nothing to undo.", false);
                 }
             }
             Command::Redo => {
                 self.panels.refused.clear();
-                if !self.history.redo(&mut self.project) {
-                    self.set_status("nothing to redo", false);
+                if !self.doc.redo() {
+                    self.messages.status("Nothing to redo.", false);
                 }
             }
             Command::ZoomIn => self.set_zoom(ctx, self.config.zoom * ZOOM_STEP),
@@ -112,61 +147,187 @@ impl Workbench {
             Command::Resolve(answer) => self.resolve(ctx, answer),
             Command::Recover => self.guard(ctx, Pending::Recover),
             Command::DiscardRecovery => {
-                if let Some(offer) = self.recovery_offer.take() {
-                    if let Err(e) = std::fs::remove_file(&offer.path) {
-                        self.set_status(
-                            &format!("could not remove {}: {e}", offer.path.display()),
+                if let Some(offer) = self.autosave.take_offer() {
+                    if let Err(e) = std::fs::remove_file(&offer.left.path) {
+                        self.messages.status(
+                            &format!("Could not remove {}: {e}", offer.left.path.display()),
                             true,
                         );
                     }
                     self.look_for_left_behind();
                 }
             }
-            Command::DismissNotice => self.notice = None,
+            Command::DismissNotice => self.messages.dismiss_notice(),
+            Command::Edit(edit) => self.edit(edit),
         }
+    }
+
+    /// Makes one discrete recipe edit as one undo step.
+    fn edit(&mut self, edit: RecipeEdit) {
+        let moves_rows = matches!(
+            edit,
+            RecipeEdit::RemoveLine(_) | RecipeEdit::MoveUp(_) | RecipeEdit::MoveDown(_)
+        );
+        match edit {
+            RecipeEdit::AddLine(line) => {
+                self.doc.edit(|p| p.recipe.lines.push(line));
+            }
+            RecipeEdit::AddCustom { system, ingredient } => {
+                let line = RecipeLine::grams(&ingredient.id, 1.0);
+                self.doc.edit(|p| {
+                    p.custom.systems.push(system);
+                    p.custom.ingredients.push(*ingredient);
+                    p.recipe.lines.push(line);
+                });
+            }
+            RecipeEdit::RemoveLine(i) => {
+                self.doc.edit(|p| {
+                    if i < p.recipe.lines.len() {
+                        p.recipe.lines.remove(i);
+                    }
+                });
+            }
+            RecipeEdit::MoveUp(i) => {
+                self.doc.edit(|p| {
+                    if i > 0 && i < p.recipe.lines.len() {
+                        p.recipe.lines.swap(i - 1, i);
+                    }
+                });
+            }
+            RecipeEdit::MoveDown(i) => {
+                self.doc.edit(|p| {
+                    if i + 1 < p.recipe.lines.len() {
+                        p.recipe.lines.swap(i, i + 1);
+                    }
+                });
+            }
+            RecipeEdit::SetEnabled { line, enabled } => {
+                self.doc.edit(|p| {
+                    if let Some(l) = p.recipe.lines.get_mut(line) {
+                        l.enabled = enabled;
+                    }
+                });
+            }
+            RecipeEdit::SetUnit { line, unit } => {
+                let converted = self.engine.amount_in(self.doc.project(), line, unit);
+                self.doc.edit(|p| {
+                    if let Some(l) = p.recipe.lines.get_mut(line) {
+                        l.amount = converted.unwrap_or(saltwise_chem::Amount {
+                            value: l.amount.value,
+                            unit,
+                        });
+                    }
+                });
+            }
+            RecipeEdit::SetQs(on) => {
+                let batch_g = self
+                    .engine
+                    .solved()
+                    .map_or(1000.0, |r| r.batch.total_mass_g.max(1.0));
+                self.doc
+                    .edit(|p| p.recipe.qs_to_g = on.then_some(p.recipe.qs_to_g.unwrap_or(batch_g)));
+            }
+            RecipeEdit::ApplyDose => self.apply_dose(),
+        }
+        if moves_rows {
+            // Row numbers move: a refusal would be shown beside the wrong line.
+            self.panels
+                .refused
+                .retain(|name, _| !name.starts_with("Amount of line"));
+        }
+    }
+
+    /// Adds the dose to the target onto the adjuster's line (or as a new line), on top of the
+    /// batch as weighed: a q.s. batch grows by the dose.
+    fn apply_dose(&mut self) {
+        let Some(Ok(curve)) = self.engine.curve() else {
+            return;
+        };
+        let Some(Ok(dose)) = &curve.to_target else {
+            self.messages.status(
+                "There is no dose to add: set a target pH it can reach.",
+                true,
+            );
+            return;
+        };
+        let (adjuster, name, dose_g) = (
+            curve.adjuster.clone(),
+            curve.adjuster_name.clone(),
+            dose.amount_g,
+        );
+        let project = self.doc.project();
+        // The adjuster's first line in grams takes the dose; otherwise a new line does.
+        let existing = project
+            .recipe
+            .lines
+            .iter()
+            .position(|l| l.ingredient == adjuster && l.enabled && l.amount.unit == Unit::Gram);
+        self.doc.edit(|p| {
+            match existing.and_then(|i| p.recipe.lines.get_mut(i)) {
+                Some(line) => line.amount.value += dose_g,
+                None => p.recipe.lines.push(RecipeLine::grams(&adjuster, dose_g)),
+            }
+            if let Some(qs) = p.recipe.qs_to_g.as_mut() {
+                *qs += dose_g;
+            }
+        });
+        self.messages.status(
+            &format!(
+                "Added {} g of {name} to the recipe, on top of the batch as weighed.",
+                crate::ui::sig(dose_g, 4)
+            ),
+            false,
+        );
     }
 
     /// Runs an action now, or asks about unsaved changes first.
     fn guard(&mut self, ctx: &egui::Context, action: Pending) {
         if let Pending::OpenPath(path) = &action
-            && self.is_dirty()
-            && let Err(reason) = self.read_project(path)
+            && self.doc.is_dirty()
+            && let Err(reason) = read_project(&self.engine, path)
         {
             // No point asking about unsaved changes for a file that cannot be opened.
             self.refuse_open(path, reason);
             return;
         }
-        if self.is_dirty() {
-            self.prompt = Some(Prompt { action });
+        if self.doc.is_dirty() {
+            self.messages.ask(action);
         } else {
             self.proceed(ctx, action);
         }
     }
 
     fn resolve(&mut self, ctx: &egui::Context, answer: Resolution) {
-        let Some(prompt) = self.prompt.take() else {
+        let Some(prompt) = self.messages.take_prompt() else {
             return;
         };
         match answer {
             Resolution::Cancel => {}
             Resolution::Discard => self.proceed(ctx, prompt.action),
             Resolution::SaveFirst => {
-                if self.save(ctx) {
+                if self.save() {
                     self.proceed(ctx, prompt.action);
                 }
             }
         }
     }
 
+    /// Puts a new project in the window: no question, no refusals left over.
+    fn replace_project(&mut self, project: Project, file: Option<PathBuf>) {
+        self.panels.refused.clear();
+        self.doc.replace(project, file);
+        let _ = self.messages.take_prompt();
+    }
+
     fn proceed(&mut self, ctx: &egui::Context, action: Pending) {
         match action {
             Pending::New => {
                 self.replace_project(Project::default(), None);
-                self.set_status("new project", false);
+                self.messages.status("New project.", false);
             }
             Pending::OpenDemo => {
                 self.replace_project(Project::demo(), None);
-                self.set_status("demo project opened", false);
+                self.messages.status("Demo project opened.", false);
             }
             Pending::Open => {
                 let mut dialog = rfd::FileDialog::new().add_filter("Saltwise project", &["ron"]);
@@ -182,7 +343,7 @@ impl Workbench {
             Pending::Quit => {
                 self.allow_close = true;
                 self.quit_requested = true;
-                self.forget_autosave();
+                self.autosave.forget();
                 self.save_config();
                 ctx.send_viewport_cmd(egui::ViewportCommand::Close);
             }
@@ -190,66 +351,62 @@ impl Workbench {
     }
 
     fn recover(&mut self) {
-        let Some(offer) = self.recovery_offer.take() else {
+        let Some(offer) = self.autosave.take_offer() else {
             return;
         };
-        match self.read_project(&offer.path) {
+        let path = offer.left.path;
+        match read_project(&self.engine, &path) {
             Ok(project) => {
                 // Recovered work is unsaved work: it has no file yet and shows as changed.
-                self.replace_with_unsaved(project);
-                self.notice = None;
-                match self.adopt_autosave(&offer.path) {
-                    Ok(()) => self.set_status(
-                        "recovered the unsaved work of the last session; save it to keep it",
+                self.panels.refused.clear();
+                self.doc.replace_with_unsaved(project);
+                self.messages.dismiss_notice();
+                match self.autosave.adopt(&path, self.doc.project()) {
+                    Ok(()) => self.messages.status(
+                        "Recovered the unsaved work of the last session; save it to keep it.",
                         false,
                     ),
-                    Err(e) => self.set_status(
-                        &format!("recovered; the kept copy stays where it was ({e})"),
+                    Err(e) => self.messages.status(
+                        &format!("Recovered; the kept copy stays where it was ({e})."),
                         true,
                     ),
                 }
                 self.look_for_left_behind();
             }
             Err(reason) => {
-                self.notice = Some(Notice {
+                self.messages.notify(Notice {
                     headline: "Could not recover the unsaved work".into(),
                     reason,
                     consequence: format!(
                         "The open project is unchanged; the kept copy stays at {}.",
-                        offer.path.display()
+                        path.display()
                     ),
                 });
             }
         }
     }
 
-    /// Reads a project file as untrusted input: every problem comes back as the core words it.
-    pub(crate) fn read_project(&self, path: &Path) -> Result<Project, String> {
-        let base = self.engine.base_library().map_err(str::to_owned)?;
-        Project::load_with_library(path, base)
-            .map(|(project, _)| project)
-            .map_err(|e| e.to_string())
-    }
-
     fn refuse_open(&mut self, path: &Path, reason: String) {
-        self.notice = Some(Notice {
+        self.messages.notify(Notice {
             headline: format!("Could not open {}", file_name(path)),
             reason,
             consequence:
                 "Nothing was changed: the open project is as it was, and the file was not modified."
                     .into(),
         });
-        self.set_status(&format!("could not open {}", path.display()), true);
+        self.messages
+            .status(&format!("Could not open {}.", path.display()), true);
     }
 
     fn open_path(&mut self, path: &Path) {
-        match self.read_project(path) {
+        match read_project(&self.engine, path) {
             Ok(project) => {
                 self.replace_project(project, Some(path.to_path_buf()));
-                self.notice = None;
+                self.messages.dismiss_notice();
                 self.config.push_recent(path);
                 self.save_config();
-                self.set_status(&format!("opened {}", path.display()), false);
+                self.messages
+                    .status(&format!("Opened {}.", path.display()), false);
             }
             Err(reason) => {
                 self.config.recent_files.retain(|p| p != path || p.exists());
@@ -259,17 +416,17 @@ impl Workbench {
     }
 
     /// Saves to the current file or asks for one; returns whether the project was saved.
-    fn save(&mut self, ctx: &egui::Context) -> bool {
-        match self.file.clone() {
+    fn save(&mut self) -> bool {
+        match self.doc.file().map(Path::to_path_buf) {
             Some(path) => self.save_to(&path),
-            None => self.save_as_dialog(ctx),
+            None => self.save_as_dialog(),
         }
     }
 
-    fn save_as_dialog(&mut self, _ctx: &egui::Context) -> bool {
+    fn save_as_dialog(&mut self) -> bool {
         let mut dialog = rfd::FileDialog::new()
             .add_filter("Saltwise project", &["ron"])
-            .set_file_name(self.suggested_file_name());
+            .set_file_name(self.doc.suggested_file_name());
         if let Some(dir) = self.dialog_dir() {
             dialog = dialog.set_directory(dir);
         }
@@ -287,20 +444,23 @@ impl Workbench {
         };
         match self.write_project(&path) {
             Ok(()) => {
-                self.mark_saved(path.clone());
-                self.notice = None;
+                self.doc.mark_saved(path.clone());
+                self.autosave.forget();
+                self.messages.dismiss_notice();
                 self.config.push_recent(&path);
                 self.save_config();
-                self.set_status(&format!("saved {}", path.display()), false);
+                self.messages
+                    .status(&format!("Saved {}.", path.display()), false);
                 true
             }
             Err(reason) => {
-                self.notice = Some(Notice {
+                self.messages.notify(Notice {
                     headline: format!("Could not save {}", file_name(&path)),
                     reason,
                     consequence: "Nothing was lost: the project is still open with all its changes, not yet saved. Try again, or choose another place with Save as… in the File menu.".into(),
                 });
-                self.set_status(&format!("could not save {}", path.display()), true);
+                self.messages
+                    .status(&format!("Could not save {}.", path.display()), true);
                 false
             }
         }
@@ -316,7 +476,8 @@ impl Workbench {
             ));
         }
         let text = self
-            .project
+            .doc
+            .project()
             .to_ron()
             .map_err(|e| format!("the project could not be written as text: {e}"))?;
         let fault = self.save_fault();
@@ -343,39 +504,18 @@ impl Workbench {
     }
 
     fn dialog_dir(&self) -> Option<PathBuf> {
-        self.file
-            .as_ref()
-            .or(self.config.recent_files.first())
-            .and_then(|p| p.parent())
+        self.doc
+            .file()
+            .or(self.config.recent_files.first().map(PathBuf::as_path))
+            .and_then(Path::parent)
             .map(Path::to_path_buf)
-    }
-
-    fn suggested_file_name(&self) -> String {
-        let stem: String = self
-            .project
-            .name
-            .chars()
-            .map(|c| {
-                if c.is_alphanumeric() {
-                    c.to_ascii_lowercase()
-                } else {
-                    '-'
-                }
-            })
-            .collect();
-        let stem = stem.trim_matches('-');
-        if stem.is_empty() {
-            "project.ron".into()
-        } else {
-            format!("{stem}.ron")
-        }
     }
 }
 
-/// The last part of a path, for headlines.
-fn file_name(path: &Path) -> String {
-    path.file_name().map_or_else(
-        || path.display().to_string(),
-        |n| n.to_string_lossy().into_owned(),
-    )
+/// Reads a project file as untrusted input: every problem comes back as the core words it.
+pub(crate) fn read_project(engine: &Engine, path: &Path) -> Result<Project, String> {
+    let base = engine.base_library().map_err(str::to_owned)?;
+    Project::load_with_library(path, base)
+        .map(|(project, _)| project)
+        .map_err(|e| e.to_string())
 }

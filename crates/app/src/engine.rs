@@ -1,11 +1,17 @@
 //! Solved results cached on their inputs: a frame whose inputs did not change solves nothing.
+//!
+//! The results form a chain — library → constants → report (with the effect of each line) →
+//! cautions, dose curve and species chart — and each stage is kept with the inputs it was made
+//! from. When a stage is made again, everything that depends on it is dropped and made again
+//! from it.
 
+use egui_plot::PlotPoint;
 use saltwise_chem::library::{LibraryData, form_names};
-use saltwise_chem::project::Project;
+use saltwise_chem::project::{Project, Settings};
 use saltwise_chem::report::{self, Report};
 use saltwise_chem::reserve;
 use saltwise_chem::solver::{self, Conditions, Constants};
-use saltwise_chem::{Library, Recipe};
+use saltwise_chem::{Amount, Library, Recipe, Unit};
 
 use saltwise_chem::curve::Doser;
 pub use saltwise_chem::curve::{CurvePoint, DoseResult, EquivalencePoint};
@@ -26,6 +32,10 @@ pub struct CurveData {
     pub adjuster_name: String,
     /// The points, from no dose to the largest.
     pub points: Vec<CurvePoint>,
+    /// (dose g, pH) of every point, for the chart.
+    pub ph_points: Vec<PlotPoint>,
+    /// (dose g, buffer capacity) of every point, for the chart.
+    pub buffer_points: Vec<PlotPoint>,
     /// Equivalence points found on the curve.
     pub equivalence: Vec<EquivalencePoint>,
     /// Dose to the target pH, or why there is none (when a target is set).
@@ -44,7 +54,7 @@ pub struct SpeciesData {
     /// Names of the forms, fully protonated first.
     pub forms: Vec<String>,
     /// Per form: (pH, fraction) points over pH 0–14.
-    pub curves: Vec<Vec<[f64; 2]>>,
+    pub curves: Vec<Vec<PlotPoint>>,
     /// Ionic strength the fractions are computed at, mol/kg.
     pub ionic_strength: f64,
     /// Fraction of each form at the recipe's pH.
@@ -55,39 +65,41 @@ pub struct SpeciesData {
     pub dominant: usize,
 }
 
+/// The solved recipe and what follows directly from it.
 #[derive(Debug, Clone, PartialEq)]
-struct ReportKey {
-    recipe: Recipe,
-    conditions: Conditions,
-    custom: LibraryData,
+struct Solved {
+    result: Result<Report, String>,
+    effects: Vec<Option<IngredientEffect>>,
 }
 
+/// What the dose curve is made from, beyond the report.
 #[derive(Debug, Clone, PartialEq)]
 struct CurveKey {
-    report: ReportKey,
     adjuster: String,
     dose_max_g: f64,
     target_ph: Option<f64>,
 }
 
-#[derive(Debug, Clone, PartialEq)]
-struct SpeciesKey {
-    report: ReportKey,
-    system: Option<String>,
+impl CurveKey {
+    fn of(settings: &Settings) -> Self {
+        Self {
+            adjuster: settings.adjuster.clone(),
+            dose_max_g: settings.dose_max_g,
+            target_ph: settings.target_ph,
+        }
+    }
 }
 
 /// The solved state of the open project, recomputed only when its inputs change.
 #[derive(Debug)]
 pub struct Engine {
     base: Result<Library, String>,
-    library: Result<Library, String>,
-    library_key: Option<LibraryData>,
-    constants: Option<Constants>,
-    report: Option<(ReportKey, Result<Report, String>)>,
-    effects: Vec<Option<IngredientEffect>>,
-    cautions: Vec<Caution>,
+    library: Option<(LibraryData, Result<Library, String>)>,
+    constants: Option<(Conditions, Result<Constants, String>)>,
+    solved: Option<(Recipe, Solved)>,
+    cautions: Option<(String, Vec<Caution>)>,
     curve: Option<(CurveKey, Result<CurveData, String>)>,
-    species: Option<(SpeciesKey, Option<SpeciesData>)>,
+    species: Option<(Option<String>, Option<SpeciesData>)>,
     solves: u64,
 }
 
@@ -100,15 +112,12 @@ impl Default for Engine {
 impl Engine {
     /// An engine over the built-in library, with nothing solved yet.
     pub fn new() -> Self {
-        let base = Library::built_in().map_err(|e| format!("the built-in library: {e}"));
         Self {
-            library: base.clone(),
-            base,
-            library_key: None,
+            base: Library::built_in().map_err(|e| format!("the built-in library: {e}")),
+            library: None,
             constants: None,
-            report: None,
-            effects: Vec::new(),
-            cautions: Vec::new(),
+            solved: None,
+            cautions: None,
             curve: None,
             species: None,
             solves: 0,
@@ -122,12 +131,15 @@ impl Engine {
 
     /// The library the project is solved with (built-in plus its custom ingredients).
     pub fn library(&self) -> Result<&Library, &str> {
-        self.library.as_ref().map_err(String::as_str)
+        match &self.library {
+            Some((_, lib)) => lib.as_ref().map_err(String::as_str),
+            None => self.base_library(),
+        }
     }
 
     /// The report of the current recipe, or why there is none.
     pub fn report(&self) -> Option<&Result<Report, String>> {
-        self.report.as_ref().map(|(_, r)| r)
+        self.solved.as_ref().map(|(_, s)| &s.result)
     }
 
     /// The solved report, if the recipe solved.
@@ -137,12 +149,12 @@ impl Engine {
 
     /// What the ingredient of each recipe line does to pH (`None` for an unknown ingredient).
     pub fn effects(&self) -> &[Option<IngredientEffect>] {
-        &self.effects
+        self.solved.as_ref().map_or(&[], |(_, s)| &s.effects)
     }
 
-    /// Cautions for the batch and its pH.
+    /// Cautions for the batch, its pH and the chosen adjuster, the safety-data line last.
     pub fn cautions(&self) -> &[Caution] {
-        &self.cautions
+        self.cautions.as_ref().map_or(&[], |(_, c)| c)
     }
 
     /// The dose curve of the chosen adjuster, or why there is none.
@@ -157,7 +169,7 @@ impl Engine {
 
     /// pKw at the project's conditions (14 until something is solved).
     pub fn pkw(&self) -> f64 {
-        self.constants.as_ref().map_or(14.0, Constants::pkw)
+        self.constants().map_or(14.0, Constants::pkw)
     }
 
     /// How many times anything has been recomputed (to check that idle frames solve nothing).
@@ -165,144 +177,233 @@ impl Engine {
         self.solves
     }
 
+    fn constants(&self) -> Option<&Constants> {
+        self.constants.as_ref().and_then(|(_, c)| c.as_ref().ok())
+    }
+
     /// Whether the cached results are for this project.
     pub fn is_current(&self, project: &Project) -> bool {
-        let key = report_key(project);
-        let Some((rk, _)) = &self.report else {
-            return false;
-        };
-        if *rk != key {
-            return false;
-        }
-        let curve_ok = self
-            .curve
+        let s = &project.settings;
+        self.library
             .as_ref()
-            .is_some_and(|(ck, _)| *ck == curve_key(&key, project));
-        let species_ok = self.species.as_ref().is_some_and(|(sk, _)| {
-            *sk == SpeciesKey {
-                report: key.clone(),
-                system: project.settings.species_system.clone(),
-            }
-        });
-        curve_ok && species_ok
+            .is_some_and(|(k, _)| *k == project.custom)
+            && self
+                .constants
+                .as_ref()
+                .is_some_and(|(k, _)| *k == conditions(s))
+            && self
+                .solved
+                .as_ref()
+                .is_some_and(|(k, _)| *k == project.recipe)
+            && self
+                .cautions
+                .as_ref()
+                .is_some_and(|(k, _)| *k == s.adjuster)
+            && self
+                .curve
+                .as_ref()
+                .is_some_and(|(k, _)| *k == CurveKey::of(s))
+            && self
+                .species
+                .as_ref()
+                .is_some_and(|(k, _)| *k == s.species_system)
     }
 
     /// Recomputes whatever is stale for this project; returns whether anything was.
     pub fn refresh(&mut self, project: &Project) -> bool {
-        let key = report_key(project);
-        let mut changed = false;
-        if self.library_key.as_ref() != Some(&project.custom) {
-            self.library = self.base.clone().and_then(|mut lib| {
+        let before = self.solves;
+        let s = &project.settings;
+        if self
+            .library
+            .as_ref()
+            .is_none_or(|(k, _)| *k != project.custom)
+        {
+            let library = self.base.clone().and_then(|mut lib| {
                 lib.extend(project.custom.clone())
                     .map_err(|e| format!("custom ingredients: {e}"))?;
                 Ok(lib)
             });
-            self.library_key = Some(project.custom.clone());
+            self.library = Some((project.custom.clone(), library));
             self.constants = None;
-            self.report = None;
-            changed = true;
         }
-        let Ok(library) = self.library.as_ref() else {
-            if self.report.is_none() {
-                let why = self.library.clone().err().unwrap_or_default();
-                self.report = Some((key.clone(), Err(why.clone())));
-                self.curve = Some((curve_key(&key, project), Err(why)));
-                self.species = Some((
-                    SpeciesKey {
-                        report: key,
-                        system: project.settings.species_system.clone(),
-                    },
-                    None,
-                ));
-            }
-            return changed;
+        let Some((_, Ok(library))) = &self.library else {
+            return self.refresh_without_library(project, before);
         };
-        if self.report.as_ref().is_none_or(|(k, _)| *k != key) {
-            self.solves += 1;
-            changed = true;
-            let result = match report::check_temperature(key.conditions.temp_c) {
-                Err(e) => Err(e.to_string()),
-                Ok(()) => {
-                    if self
-                        .constants
-                        .as_ref()
-                        .is_none_or(|c| c.conditions != key.conditions)
-                    {
-                        self.constants = Some(Constants::new(library, key.conditions));
-                    }
-                    match self.constants.as_ref() {
-                        Some(constants) => report::evaluate_with(library, constants, &key.recipe)
-                            .map_err(|e| e.to_string()),
-                        None => Err("no constants".into()),
-                    }
-                }
-            };
-            self.effects.clear();
-            self.cautions.clear();
-            if let Some(constants) = self.constants.as_ref() {
-                self.effects = key
-                    .recipe
-                    .lines
-                    .iter()
-                    .map(|l| {
-                        library
-                            .entry_index(&l.ingredient)
-                            .map(|e| explain::explain_ingredient(library, constants, e))
-                    })
-                    .collect();
-            }
-            if let Ok(report) = &result {
-                self.cautions = hazard::cautions(library, &report.batch, Some(&report.solution));
-                // Below pH 4 or above pH 10, the reserve says how strongly the product resists
-                // neutralising; it goes before the closing safety-data line.
-                let reserve = self.constants.as_ref().and_then(|constants| {
-                    reserve::reserve(library, constants, &report.batch, report.solution.ph)
-                        .ok()
-                        .flatten()
-                });
-                if let Some(r) = reserve {
-                    if self.cautions.is_empty() {
-                        self.cautions.push(reserve::caution(&r));
-                        self.cautions.push(Caution {
-                            title: "Safety data".into(),
-                            text: hazard::DEFER.into(),
-                        });
-                    } else {
-                        let at = self.cautions.len() - 1;
-                        self.cautions.insert(at, reserve::caution(&r));
-                    }
-                }
-            }
-            self.report = Some((key.clone(), result));
+        let conditions = conditions(s);
+        if self
+            .constants
+            .as_ref()
+            .is_none_or(|(k, _)| *k != conditions)
+        {
+            let constants = report::check_temperature(conditions.temp_c)
+                .map(|()| Constants::new(library, conditions))
+                .map_err(|e| e.to_string());
+            self.constants = Some((conditions, constants));
+            self.solved = None;
         }
-        let ck = curve_key(&key, project);
-        if self.curve.as_ref().is_none_or(|(k, _)| *k != ck) {
+        let Some((_, constants)) = &self.constants else {
+            return self.solves != before;
+        };
+        if self
+            .solved
+            .as_ref()
+            .is_none_or(|(k, _)| *k != project.recipe)
+        {
             self.solves += 1;
-            changed = true;
-            let data = match (self.report(), self.constants.as_ref()) {
-                (Some(Ok(report)), Some(constants)) => curve_data(library, constants, report, &ck),
+            let solved = match constants {
+                Ok(constants) => Solved {
+                    result: report::evaluate_with(library, constants, &project.recipe)
+                        .map_err(|e| e.to_string()),
+                    effects: effects(library, constants, &project.recipe),
+                },
+                Err(e) => Solved {
+                    result: Err(e.clone()),
+                    effects: Vec::new(),
+                },
+            };
+            self.solved = Some((project.recipe.clone(), solved));
+            self.cautions = None;
+            self.curve = None;
+            self.species = None;
+        }
+        let report = self.solved.as_ref().map(|(_, s)| &s.result);
+        let constants = constants.as_ref().ok();
+        if self.cautions.as_ref().is_none_or(|(k, _)| *k != s.adjuster) {
+            let list = match (report, constants) {
+                (Some(Ok(report)), Some(constants)) => {
+                    cautions(library, constants, report, &s.adjuster)
+                }
+                _ => Vec::new(),
+            };
+            self.cautions = Some((s.adjuster.clone(), list));
+        }
+        let curve_key = CurveKey::of(s);
+        if self.curve.as_ref().is_none_or(|(k, _)| *k != curve_key) {
+            self.solves += 1;
+            let data = match (report, constants) {
+                (Some(Ok(report)), Some(constants)) => {
+                    curve_data(library, constants, report, &curve_key)
+                }
                 (Some(Err(e)), _) => Err(e.clone()),
                 _ => Err("the recipe has not been solved".into()),
             };
-            self.curve = Some((ck, data));
+            self.curve = Some((curve_key, data));
         }
-        let sk = SpeciesKey {
-            report: key,
-            system: project.settings.species_system.clone(),
-        };
-        if self.species.as_ref().is_none_or(|(k, _)| *k != sk) {
+        if self
+            .species
+            .as_ref()
+            .is_none_or(|(k, _)| *k != s.species_system)
+        {
             self.solves += 1;
-            changed = true;
-            let data = match (self.solved(), self.constants.as_ref()) {
-                (Some(report), Some(constants)) => {
-                    species_data(library, constants, report, sk.system.as_deref())
+            let data = match (report, constants) {
+                (Some(Ok(report)), Some(constants)) => {
+                    species_data(library, constants, report, s.species_system.as_deref())
                 }
                 _ => None,
             };
-            self.species = Some((sk, data));
+            self.species = Some((s.species_system.clone(), data));
         }
-        changed
+        self.solves != before
     }
+
+    /// Every result says why when the library itself could not be built.
+    fn refresh_without_library(&mut self, project: &Project, before: u64) -> bool {
+        if self
+            .solved
+            .as_ref()
+            .is_some_and(|(k, _)| *k == project.recipe)
+        {
+            return self.solves != before;
+        }
+        let why = self
+            .library
+            .as_ref()
+            .and_then(|(_, l)| l.as_ref().err().cloned())
+            .unwrap_or_default();
+        self.solves += 1;
+        let s = &project.settings;
+        self.constants = Some((conditions(s), Err(why.clone())));
+        self.solved = Some((
+            project.recipe.clone(),
+            Solved {
+                result: Err(why.clone()),
+                effects: Vec::new(),
+            },
+        ));
+        self.cautions = Some((s.adjuster.clone(), Vec::new()));
+        self.curve = Some((CurveKey::of(s), Err(why)));
+        self.species = Some((s.species_system.clone(), None));
+        true
+    }
+
+    /// The amount of line `line` given in `unit`, for the same mass where it can be known.
+    pub fn amount_in(&self, project: &Project, line: usize, unit: Unit) -> Option<Amount> {
+        let l = project.recipe.lines.get(line)?;
+        let entry = self.library().ok()?.entry(&l.ingredient)?;
+        let batch_g = self.solved().map(|r| r.batch.total_mass_g);
+        let grams = match entry.grams(l.amount) {
+            Some(g) => g,
+            None => l.amount.value / 100.0 * batch_g?,
+        };
+        let value = match unit {
+            Unit::Gram => grams,
+            Unit::Kilogram => grams * 1e-3,
+            Unit::Milligram => grams * 1e3,
+            Unit::Mole => grams * entry.ingredient.assay / entry.molar_mass_g_per_mol,
+            Unit::Percent => 100.0 * grams / batch_g.filter(|b| *b > 0.0)?,
+        };
+        value.is_finite().then_some(Amount { value, unit })
+    }
+}
+
+fn conditions(settings: &Settings) -> Conditions {
+    Conditions {
+        temp_c: settings.temp_c,
+        activity: settings.activity,
+    }
+}
+
+fn effects(
+    library: &Library,
+    constants: &Constants,
+    recipe: &Recipe,
+) -> Vec<Option<IngredientEffect>> {
+    recipe
+        .lines
+        .iter()
+        .map(|l| {
+            library
+                .entry_index(&l.ingredient)
+                .map(|e| explain::explain_ingredient(library, constants, e))
+        })
+        .collect()
+}
+
+fn cautions(
+    library: &Library,
+    constants: &Constants,
+    report: &Report,
+    _adjuster: &str,
+) -> Vec<Caution> {
+    let mut list = hazard::cautions(library, &report.batch, Some(&report.solution));
+    // Below pH 4 or above pH 10, the reserve says how strongly the product resists
+    // neutralising; it goes before the closing safety-data line.
+    let reserve = reserve::reserve(library, constants, &report.batch, report.solution.ph)
+        .ok()
+        .flatten();
+    if let Some(r) = reserve {
+        if list.is_empty() {
+            list.push(reserve::caution(&r));
+            list.push(Caution {
+                title: "Safety data".into(),
+                text: hazard::DEFER.into(),
+            });
+        } else {
+            let at = list.len() - 1;
+            list.insert(at, reserve::caution(&r));
+        }
+    }
+    list
 }
 
 fn curve_data(
@@ -314,42 +415,34 @@ fn curve_data(
     if !(key.dose_max_g.is_finite() && key.dose_max_g > 0.0) {
         return Err(format!("largest dose {} g must be above 0", key.dose_max_g));
     }
-    let doser =
-        Doser::new(library, constants, &report.batch, &key.adjuster).map_err(|e| e.to_string())?;
-    let curve = doser.curve(key.dose_max_g, CURVE_POINTS);
-    let to_target = key
-        .target_ph
-        .map(|t| doser.to_target(t).map_err(|e| e.to_string()));
     let adjuster_name = library
         .entry(&key.adjuster)
         .map_or_else(|| key.adjuster.clone(), |e| e.ingredient.name.clone());
+    let doser =
+        Doser::new(library, constants, &report.batch, &key.adjuster).map_err(|e| e.to_string())?;
+    let curve = doser.curve(key.dose_max_g, CURVE_POINTS);
+    let to_target = key.target_ph.map(|t| {
+        doser
+            .to_target(t)
+            .map_err(|e| e.to_string().replace(&key.adjuster, &adjuster_name))
+    });
     Ok(CurveData {
+        ph_points: curve
+            .points
+            .iter()
+            .map(|p| PlotPoint::new(p.dose_g, p.ph))
+            .collect(),
+        buffer_points: curve
+            .points
+            .iter()
+            .map(|p| PlotPoint::new(p.dose_g, p.buffer_capacity))
+            .collect(),
         adjuster: curve.adjuster,
         adjuster_name,
         points: curve.points,
         equivalence: curve.equivalence,
         to_target,
     })
-}
-
-fn report_key(project: &Project) -> ReportKey {
-    ReportKey {
-        recipe: project.recipe.clone(),
-        conditions: Conditions {
-            temp_c: project.settings.temp_c,
-            activity: project.settings.activity,
-        },
-        custom: project.custom.clone(),
-    }
-}
-
-fn curve_key(report: &ReportKey, project: &Project) -> CurveKey {
-    CurveKey {
-        report: report.clone(),
-        adjuster: project.settings.adjuster.clone(),
-        dose_max_g: project.settings.dose_max_g,
-        target_ph: project.settings.target_ph,
-    }
 }
 
 /// The system shown: the chosen one if present in the recipe, else the first present.
@@ -384,7 +477,7 @@ fn species_data(
         .map(|j| {
             table
                 .iter()
-                .map(|(ph, f)| [*ph, f.get(j).copied().unwrap_or(0.0)])
+                .map(|(ph, f)| PlotPoint::new(*ph, f.get(j).copied().unwrap_or(0.0)))
                 .collect()
         })
         .collect();

@@ -3,23 +3,31 @@
 //!
 //! [`Workbench`] is the whole window; [`Workbench::show`] draws one frame into any [`egui::Ui`],
 //! so the tests drive the real program through `egui_kittest`. Every user action is a
-//! [`Command`] handled in one place (`command.rs`); the saved [`saltwise_chem::project::Project`]
-//! is kept apart from runtime state (solved results, undo history, selection).
+//! [`Command`] handled in one place (`command.rs`). The state is split by what it is for: the
+//! [`Document`] (project, saved copy, file, undo history), the [`Messages`] (status, file
+//! problem, question), [`Autosave`] (copies of unsaved work and the one offered back), the
+//! [`Engine`] (solved results cached on their inputs) and the panels' own state under `ui/`.
 
 #![warn(missing_docs)]
 
 mod app;
+mod autosave;
 mod command;
 mod config;
+mod document;
 mod engine;
 mod history;
+mod messages;
 mod recovery;
 mod ui;
 
-pub use app::{AUTOSAVE_IDLE_SECS, Notice, Prompt, SaveFault, Workbench};
-pub use command::{Command, Resolution};
+pub use app::{SaveFault, Workbench};
+pub use autosave::{AUTOSAVE_IDLE_SECS, Autosave, Offer, Tick};
+pub use command::{Command, RecipeEdit, Resolution};
 pub use config::{CONFIG_DIR_ENV, ConfigStore, UserConfig};
+pub use document::Document;
 pub use engine::{CurveData, CurvePoint, Engine, SpeciesData};
+pub use messages::{Messages, Notice, Pending, Prompt, Status};
 pub use recovery::{DATA_DIR_ENV, LeftBehind, RecoveryStore};
 
 use std::process::ExitCode;

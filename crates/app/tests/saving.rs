@@ -307,7 +307,7 @@ fn an_autosave_that_cannot_be_written_says_so_and_loses_nothing() {
     h.run_steps(idle_steps());
     let status = h.state().status_text().unwrap().to_owned();
     assert!(
-        status.contains("unsaved work could not be kept"),
+        status.contains("Unsaved work could not be kept"),
         "{status}"
     );
     h.get_by_label(&status);

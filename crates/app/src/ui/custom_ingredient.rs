@@ -5,7 +5,8 @@ use egui::{RichText, Ui};
 use saltwise_chem::Library;
 use saltwise_chem::formula::Formula;
 use saltwise_chem::library::{Ingredient, Release, System};
-use saltwise_chem::project::Project;
+
+use crate::command::{Command, RecipeEdit};
 
 /// Smallest pKa a custom system may have.
 const PKA_MIN: f64 = -5.0;
@@ -32,9 +33,9 @@ pub struct CustomForm {
 /// Draws the form.
 pub fn custom_ingredient_ui(
     ui: &mut Ui,
-    project: &mut Project,
     library: &Library,
     form: &mut CustomForm,
+    commands: &mut Vec<Command>,
 ) {
     egui::CollapsingHeader::new("Custom ingredient (a weak acid)")
         .default_open(false)
@@ -54,10 +55,10 @@ pub fn custom_ingredient_ui(
             if ui.button("Add to the project").clicked() {
                 match build(form, library) {
                     Ok((system, ingredient)) => {
-                        let id = ingredient.id.clone();
-                        project.custom.systems.push(system);
-                        project.custom.ingredients.push(ingredient);
-                        project.recipe.lines.push(saltwise_chem::RecipeLine::grams(&id, 1.0));
+                        commands.push(Command::Edit(RecipeEdit::AddCustom {
+                            system,
+                            ingredient: Box::new(ingredient),
+                        }));
                         *form = CustomForm::default();
                     }
                     Err(e) => form.problem = Some(e),

@@ -1,14 +1,14 @@
 //! The dose curve: pH against the dose of a chosen pH adjuster, with the target band, the current
 //! recipe, equivalence points, a hover readout and buffer capacity as a second chart.
 
-use egui::{Color32, DragValue, RichText, Ui};
-use egui_plot::{Corner, Legend, Line, MarkerShape, Plot, PlotPoints, Points, Span, VLine};
+use egui::{RichText, Role, Ui};
+use egui_plot::{Corner, Legend, Line, LineStyle, MarkerShape, Plot, Points, Span, VLine};
 use saltwise_chem::Library;
 use saltwise_chem::library::ResolvedRelease;
 use saltwise_chem::project::Settings;
 
-use super::{Allowed, checked_drag, sig};
-use crate::app::PanelState;
+use super::{Allowed, Field, PanelState, checked_drag, sig};
+use crate::command::{Command, RecipeEdit};
 use crate::engine::Engine;
 
 /// Height of a main chart: what the window leaves below the readout, within limits.
@@ -31,6 +31,7 @@ pub fn dose_curve_ui(
     settings: &mut Settings,
     engine: &Engine,
     panels: &mut PanelState,
+    commands: &mut Vec<Command>,
 ) {
     ui.heading("Dose curve");
     let Ok(library) = engine.library() else {
@@ -45,17 +46,23 @@ pub fn dose_curve_ui(
         let speed = (settings.dose_max_g * 0.005).max(0.01);
         checked_drag(
             ui,
-            DragValue::new(&mut settings.dose_max_g)
-                .range(0.001..=LARGEST_DOSE.max)
-                .speed(speed)
-                .max_decimals(3),
-            "Largest dose",
+            &mut settings.dose_max_g,
+            |d| {
+                d.range(0.001..=LARGEST_DOSE.max)
+                    .speed(speed)
+                    .max_decimals(3)
+            },
+            Field {
+                name: "Largest dose",
+                hint: "The right end of the curve, in grams of the adjuster as supplied",
+            },
             LARGEST_DOSE,
             &mut panels.refused,
         )
         .labelled_by(label.id);
         ui.label("g");
-        ui.checkbox(&mut panels.show_buffer_capacity, "Show buffer capacity");
+        ui.checkbox(&mut panels.show_buffer_capacity, "Show buffer capacity")
+            .on_hover_text("A second chart under this one: buffer capacity against the same dose");
     });
     let curve = match engine.curve() {
         Some(Ok(c)) => c,
@@ -77,6 +84,18 @@ pub fn dose_curve_ui(
                 .strong()
                 .color(super::TARGET),
             );
+            ui.horizontal_wrapped(|ui| {
+                if ui
+                    .button("Add this dose to the recipe")
+                    .on_hover_text(
+                        "One step you can undo: onto the adjuster's line in grams, or as a new line",
+                    )
+                    .clicked()
+                {
+                    commands.push(Command::Edit(RecipeEdit::ApplyDose));
+                }
+                ui.weak("Doses go on top of the batch as weighed.");
+            });
         }
         (Some(Err(e)), _) => {
             ui.colored_label(super::WARN, e);
@@ -85,7 +104,6 @@ pub fn dose_curve_ui(
             ui.weak("Set a target pH in the readout to see the dose that reaches it.");
         }
     }
-    let line: PlotPoints = curve.points.iter().map(|p| [p.dose_g, p.ph]).collect();
     let x_label = format!("dose of {}, g", curve.adjuster_name);
     let link = egui::Id::unique("dose_axis_link");
     let target = settings.target_ph;
@@ -99,6 +117,7 @@ pub fn dose_curve_ui(
         .map(|d| d.amount_g)
         .filter(|d| *d <= settings.dose_max_g);
     let height = chart_height(ui);
+    let current_color = super::current_color(ui);
     // Put the legend in the bottom corner the curve leaves empty: right for a rising curve,
     // left for a falling one.
     let rising = curve.points.last().map(|p| p.ph) > curve.points.first().map(|p| p.ph);
@@ -125,23 +144,26 @@ pub fn dose_curve_ui(
         .show(ui, |plot| {
             if let Some(t) = target {
                 plot.span(
-                    Span::new("target band", (t - tolerance)..=(t + tolerance))
-                        .axis(egui_plot::Axis::Y)
-                        .fill(super::TARGET.gamma_multiply(0.18))
-                        .border_color(super::TARGET),
+                    Span::new(
+                        format!("target band pH {t:.2} ± {tolerance:.2}"),
+                        (t - tolerance)..=(t + tolerance),
+                    )
+                    .axis(egui_plot::Axis::Y)
+                    .fill(super::TARGET.gamma_multiply(0.35))
+                    .border_color(super::TARGET),
                 );
             }
             plot.line(
-                Line::new("pH", line)
+                Line::new("pH", curve.ph_points.as_slice())
                     .width(2.0)
-                    .color(Color32::from_rgb(0x3a, 0x6e, 0xc8)),
+                    .color(super::PH_LINE),
             );
             if let Some(c) = current {
                 plot.points(
                     Points::new("current recipe", vec![c])
                         .shape(MarkerShape::Diamond)
                         .radius(7.0)
-                        .color(Color32::from_rgb(0xe0, 0x6c, 0x1f)),
+                        .color(current_color),
                 );
             }
             if !eq.is_empty() {
@@ -150,7 +172,7 @@ pub fn dose_curve_ui(
                         .shape(MarkerShape::Circle)
                         .radius(5.0)
                         .filled(false)
-                        .color(Color32::from_rgb(0x8e, 0x44, 0xad)),
+                        .color(super::EQUIVALENCE),
                 );
             }
             if let Some(d) = dose {
@@ -166,15 +188,10 @@ pub fn dose_curve_ui(
         ui.label(format!("Equivalence points: {}", list.join(", ")));
     }
     if panels.show_buffer_capacity {
-        let beta: PlotPoints = curve
-            .points
-            .iter()
-            .map(|p| [p.dose_g, p.buffer_capacity])
-            .collect();
         Plot::new("buffer_plot")
             .height(BUFFER_HEIGHT)
             .x_axis_label(x_label)
-            .y_axis_label("β, mol/kg per pH")
+            .y_axis_label("β, mol per kg water per pH")
             .link_axis(link, [true, false])
             .link_cursor(link, [true, false])
             .include_y(0.0)
@@ -187,9 +204,10 @@ pub fn dose_curve_ui(
             })
             .show(ui, |plot| {
                 plot.line(
-                    Line::new("buffer capacity", beta)
+                    Line::new("buffer capacity", curve.buffer_points.as_slice())
                         .width(2.0)
-                        .color(Color32::from_rgb(0x8e, 0x44, 0xad)),
+                        .style(LineStyle::dashed_loose())
+                        .color(super::BUFFER),
                 );
             });
     }
@@ -199,7 +217,7 @@ fn adjuster_picker(ui: &mut Ui, settings: &mut Settings, library: &Library) {
     let selected = library
         .entry(&settings.adjuster)
         .map_or_else(|| settings.adjuster.clone(), |e| e.ingredient.name.clone());
-    egui::ComboBox::from_id_salt("adjuster")
+    let response = egui::ComboBox::from_id_salt("adjuster")
         .selected_text(selected)
         .width(260.0)
         .show_ui(ui, |ui| {
@@ -215,8 +233,10 @@ fn adjuster_picker(ui: &mut Ui, settings: &mut Settings, library: &Library) {
                 );
             }
         })
-        .response
-        .on_hover_text("pH adjuster");
+        .response;
+    super::name_widget(response, Role::ComboBox, "pH adjuster").on_hover_text(
+        "Any library ingredient that releases an acid or a base; the curve adds it to the batch",
+    );
 }
 
 fn moves_ph(library: &Library, releases: &[ResolvedRelease]) -> bool {

@@ -14,18 +14,75 @@ use std::rc::Rc;
 
 use egui::{Color32, DragValue, Response, RichText, Role, Ui, WidgetInfo};
 
-/// Colour of warnings (amber, readable on both themes).
-pub const WARN: Color32 = Color32::from_rgb(0xd9, 0x8c, 0x00);
-/// Colour of errors.
-pub const ERROR: Color32 = Color32::from_rgb(0xd0, 0x3a, 0x2f);
-/// Colour of the target band and target marks.
-pub const TARGET: Color32 = Color32::from_rgb(0x2e, 0x9d, 0x6b);
+/// Runtime state of the panels that is not part of the project.
+#[derive(Debug, Clone, Default)]
+pub struct PanelState {
+    /// Text typed into the ingredient picker.
+    pub picker_query: String,
+    /// Whether the dose curve shows buffer capacity.
+    pub show_buffer_capacity: bool,
+    /// The custom-ingredient form.
+    pub custom: custom_ingredient::CustomForm,
+    /// Why the last text typed into a number field was refused, by the field's name.
+    pub refused: Refusals,
+}
+
+// One colour, one meaning. The colours are from the Okabe–Ito set, chosen to stay apart for
+// the common kinds of colour blindness (no red against green); the species use a set of their
+// own, with dashes on every other form so no form is told apart by colour alone.
+
+/// Warnings and limits of the prediction (orange).
+pub const WARN: Color32 = Color32::from_rgb(0xc2, 0x7c, 0x00);
+/// Errors and refusals (vermillion).
+pub const ERROR: Color32 = Color32::from_rgb(0xd5, 0x5e, 0x00);
+/// The target band and everything about reaching it (bluish green).
+pub const TARGET: Color32 = Color32::from_rgb(0x00, 0x9e, 0x73);
+/// The pH on the dose curve (blue).
+pub const PH_LINE: Color32 = Color32::from_rgb(0x00, 0x72, 0xb2);
+/// Buffer capacity (sky blue, dashed).
+pub const BUFFER: Color32 = Color32::from_rgb(0x56, 0xb4, 0xe9);
+/// Equivalence points (reddish purple, open circles).
+pub const EQUIVALENCE: Color32 = Color32::from_rgb(0xcc, 0x79, 0xa7);
+/// The forms of a system on the species chart, in order.
+pub const SPECIES: [Color32; 7] = [
+    Color32::from_rgb(0xcc, 0xbb, 0x44),
+    Color32::from_rgb(0xaa, 0x33, 0x77),
+    Color32::from_rgb(0x44, 0x77, 0xaa),
+    Color32::from_rgb(0x99, 0x99, 0x99),
+    Color32::from_rgb(0xee, 0x66, 0x77),
+    Color32::from_rgb(0x66, 0xcc, 0xee),
+    Color32::from_rgb(0x22, 0x88, 0x33),
+];
+
+/// The current recipe on any chart: the theme's own strongest text colour.
+pub fn current_color(ui: &Ui) -> Color32 {
+    ui.visuals().strong_text_color()
+}
+
+/// The built-in fonts, with the monospace face behind the proportional one for the glyphs it
+/// lacks (superscript ⁺ and ⁻ of charges and powers of ten, arrows).
+pub fn fonts() -> egui::FontDefinitions {
+    let mut fonts = egui::FontDefinitions::default();
+    if let Some(family) = fonts.families.get_mut(&egui::FontFamily::Proportional) {
+        let at = family.len().min(1);
+        family.insert(at, "Hack".to_owned());
+    }
+    fonts
+}
 
 /// A button whose visible text may be an icon but whose accessible name is `name`.
 pub fn named_button(ui: &mut Ui, text: &str, name: &str) -> Response {
     let enabled = ui.is_enabled();
     let response = ui.button(text).on_hover_text(name);
     response.widget_info(|| WidgetInfo::labeled(Role::Button, enabled, name));
+    response
+}
+
+/// Gives a widget the accessible name `name` (what tests and screen readers find it by), so its
+/// tooltip is free to add information instead of repeating the label.
+pub fn name_widget(response: Response, role: Role, name: &str) -> Response {
+    let enabled = response.enabled();
+    response.widget_info(|| WidgetInfo::labeled(role, enabled, name));
     response
 }
 
@@ -85,24 +142,33 @@ pub fn parse_number(text: &str) -> Option<f64> {
 }
 
 /// A drag value whose typed text is checked against `allowed`: refused text leaves the value as
-/// it was, and the reason is shown beside the field until a change is accepted.
+/// it was, and the reason is shown beside the field until a change is accepted. `name` is what
+/// the field is found by; `hint` is its tooltip.
 pub fn checked_drag(
     ui: &mut Ui,
-    drag: DragValue<'_>,
-    name: &str,
+    value: &mut f64,
+    configure: impl FnOnce(DragValue<'_>) -> DragValue<'_>,
+    field: Field<'_>,
     allowed: Allowed,
     refused: &mut Refusals,
 ) -> Response {
     let verdict: Rc<RefCell<Option<Result<f64, String>>>> = Rc::default();
     let seen = Rc::clone(&verdict);
-    let response = ui
-        .add(drag.custom_parser(move |text| {
-            let result = allowed.check(text);
-            let value = result.as_ref().ok().copied();
-            *seen.borrow_mut() = Some(result);
-            value
-        }))
-        .on_hover_text(name);
+    let drag = configure(DragValue::new(value)).custom_parser(move |text| {
+        let result = allowed.check(text);
+        let value = result.as_ref().ok().copied();
+        *seen.borrow_mut() = Some(result);
+        value
+    });
+    let response = ui.add(drag);
+    let (enabled, shown) = (response.enabled(), *value);
+    response.widget_info(|| {
+        let mut info = WidgetInfo::drag_value(enabled, shown);
+        info.label = Some(field.name.to_owned());
+        info
+    });
+    let response = response.on_hover_text(field.hint);
+    let name = field.name;
     match verdict.borrow_mut().take() {
         Some(Err(why)) => {
             refused.insert(name.to_owned(), why);
@@ -119,6 +185,15 @@ pub fn checked_drag(
         ui.label(RichText::new(why).color(ERROR).small());
     }
     response
+}
+
+/// A number field's accessible name and its tooltip.
+#[derive(Debug, Clone, Copy)]
+pub struct Field<'a> {
+    /// What the field is found by ("Temperature").
+    pub name: &'a str,
+    /// What the tooltip adds.
+    pub hint: &'a str,
 }
 
 /// A number with about `digits` significant figures, without exponent for everyday sizes.

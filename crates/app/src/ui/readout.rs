@@ -1,11 +1,11 @@
 //! The readout: pH large, p[H], ionic strength with the model's range, buffer capacity, and the
 //! conditions (temperature, activity model, target).
 
-use egui::{DragValue, RichText, Ui};
+use egui::{RichText, Ui};
 use saltwise_chem::ActivityModel;
 use saltwise_chem::project::Settings;
 
-use super::{Allowed, Refusals, checked_drag, sig};
+use super::{Allowed, Field, Refusals, checked_drag, sig};
 use crate::engine::Engine;
 
 /// Width from which values and conditions fit on one row, points.
@@ -70,7 +70,7 @@ fn values_ui(ui: &mut Ui, settings: &Settings, engine: &Engine) {
             let s = &report.solution;
             ui.vertical(|ui| {
                 ui.label(RichText::new(format!("pH {:.2}", s.ph)).size(46.0).strong())
-                    .on_hover_text("pH as a meter reads it: −log a(H+)");
+                    .on_hover_text("As a calibrated pH meter reads it: −log a(H⁺), the activity of the hydrogen ion");
                 if let Some(target) = settings.target_ph {
                     let off = s.ph - target;
                     let (text, color) = if off.abs() <= settings.target_tolerance {
@@ -90,20 +90,20 @@ fn values_ui(ui: &mut Ui, settings: &Settings, engine: &Engine) {
             egui::Grid::new("readout_values").spacing([12.0, 4.0]).show(ui, |ui| {
                 ui.label("p[H]");
                 ui.label(RichText::new(format!("{:.2}", s.p_h_conc)).size(18.0))
-                    .on_hover_text("−log of the H+ molality");
+                    .on_hover_text("−log m(H⁺): the hydrogen-ion molality itself, without the activity coefficient");
                 ui.end_row();
                 ui.label("Ionic strength");
                 let limit = report.conditions.activity.max_ionic_strength();
-                let text = RichText::new(format!("{} mol/kg", sig(s.ionic_strength, 3))).size(18.0);
+                let text = RichText::new(format!("{} mol/kg water", sig(s.ionic_strength, 3))).size(18.0);
                 if s.ionic_strength > limit {
                     ui.label(text.color(super::WARN)).on_hover_text(format!(
-                        "above {limit} mol/kg, the usual range of this activity model: treat the pH as indicative"
+                        "Above {limit} mol/kg water, the usual range of this activity model: treat the pH as indicative"
                     ));
                     ui.end_row();
                     ui.label("");
                     ui.colored_label(
                         super::WARN,
-                        format!("above the {limit} mol/kg range of the model"),
+                        format!("Above the {limit} mol/kg water range of the model"),
                     );
                 } else {
                     ui.label(text);
@@ -111,9 +111,9 @@ fn values_ui(ui: &mut Ui, settings: &Settings, engine: &Engine) {
                 ui.end_row();
                 ui.label("Buffer capacity");
                 ui.label(
-                    RichText::new(format!("{} mol/kg per pH", sig(s.buffer_capacity, 3))).size(18.0),
+                    RichText::new(format!("{} mol/kg water per pH", sig(s.buffer_capacity, 3))).size(18.0),
                 )
-                .on_hover_text("β = dC(base)/dpH: strong base per kg of water that moves the pH by one unit");
+                .on_hover_text("β = dC(base)/dpH: mol of strong base per kg of water that would move the pH by one unit here");
                 ui.end_row();
             });
         }
@@ -142,20 +142,25 @@ fn conditions_ui(ui: &mut Ui, settings: &mut Settings, refused: &mut Refusals) {
             ui.horizontal(|ui| {
                 checked_drag(
                     ui,
-                    DragValue::new(&mut settings.temp_c)
-                        .range(TEMPERATURE.min..=TEMPERATURE.max)
-                        .speed(0.2)
-                        .max_decimals(1)
-                        .suffix(" °C"),
-                    "Temperature",
+                    &mut settings.temp_c,
+                    |d| {
+                        d.range(TEMPERATURE.min..=TEMPERATURE.max)
+                            .speed(0.2)
+                            .max_decimals(1)
+                            .suffix(" °C")
+                    },
+                    Field {
+                        name: "Temperature",
+                        hint: "0–95 °C: Kw, every pKa and the activity model follow it",
+                    },
                     TEMPERATURE,
                     refused,
                 )
                 .labelled_by(label.id);
             });
             ui.end_row();
-            ui.label("Activity model");
-            egui::ComboBox::from_id_salt("activity_model")
+            let label = ui.label("Activity model");
+            let response = egui::ComboBox::from_id_salt("activity_model")
                 .selected_text(activity_words(settings.activity))
                 .show_ui(ui, |ui| {
                     for m in [ActivityModel::Davies, ActivityModel::Ideal] {
@@ -163,7 +168,10 @@ fn conditions_ui(ui: &mut Ui, settings: &mut Settings, refused: &mut Refusals) {
                     }
                 })
                 .response
-                .on_hover_text("Activity model");
+                .labelled_by(label.id);
+            response.on_hover_text(
+                "How ion activities are estimated from the ionic strength: Davies to about 0.5 mol/kg water, ideal only for very dilute solutions",
+            );
             ui.end_row();
             let mut has_target = settings.target_ph.is_some();
             if ui.checkbox(&mut has_target, "Target pH").changed() {
@@ -173,22 +181,32 @@ fn conditions_ui(ui: &mut Ui, settings: &mut Settings, refused: &mut Refusals) {
                 if let Some(t) = settings.target_ph.as_mut() {
                     checked_drag(
                         ui,
-                        DragValue::new(t)
-                            .range(TARGET_PH.min..=TARGET_PH.max)
-                            .speed(0.01)
-                            .max_decimals(2),
-                        "Target pH value",
+                        t,
+                        |d| {
+                            d.range(TARGET_PH.min..=TARGET_PH.max)
+                                .speed(0.01)
+                                .max_decimals(2)
+                        },
+                        Field {
+                            name: "Target pH value",
+                            hint: "The pH the batch should reach; the dose curve finds the dose to it",
+                        },
                         TARGET_PH,
                         refused,
                     );
                     ui.label("±");
                     checked_drag(
                         ui,
-                        DragValue::new(&mut settings.target_tolerance)
-                            .range(TOLERANCE.min..=TOLERANCE.max)
-                            .speed(0.01)
-                            .max_decimals(2),
-                        "Target band half-width",
+                        &mut settings.target_tolerance,
+                        |d| {
+                            d.range(TOLERANCE.min..=TOLERANCE.max)
+                                .speed(0.01)
+                                .max_decimals(2)
+                        },
+                        Field {
+                            name: "Target band half-width",
+                            hint: "How far either side of the target still counts as on target",
+                        },
                         TOLERANCE,
                         refused,
                     );
@@ -200,7 +218,7 @@ fn conditions_ui(ui: &mut Ui, settings: &mut Settings, refused: &mut Refusals) {
 
 fn activity_words(model: ActivityModel) -> &'static str {
     match model {
-        ActivityModel::Davies => "Davies (to 0.5 mol/kg)",
+        ActivityModel::Davies => "Davies (to 0.5 mol/kg water)",
         ActivityModel::Ideal => "ideal (dilute only)",
     }
 }

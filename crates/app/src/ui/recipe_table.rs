@@ -1,15 +1,14 @@
 //! The recipe panel: one row per ingredient line, the q.s. water line and batch size, what each
 //! line does to pH, and the picker that adds ingredients from the library.
 
-use egui::{DragValue, RichText, Ui};
-use saltwise_chem::library::Entry;
+use egui::{RichText, Ui};
+use saltwise_chem::explain::{Effect, IngredientEffect};
 use saltwise_chem::project::Project;
 use saltwise_chem::{Amount, Library, RecipeLine, Unit};
 
-use super::{Allowed, Refusals, checked_drag, named_button, sig};
-use crate::app::PanelState;
+use super::{Allowed, Field, PanelState, Refusals, checked_drag, named_button, sig};
+use crate::command::{Command, RecipeEdit};
 use crate::engine::Engine;
-use saltwise_chem::explain::{Effect, IngredientEffect};
 
 /// Most matches the picker lists at once.
 const PICKER_ROWS: usize = 40;
@@ -28,18 +27,13 @@ const BATCH: Allowed = Allowed {
     rule: "a batch is above 0 g and at most 100 000 000 g",
 };
 
-enum RowAction {
-    Up(usize),
-    Down(usize),
-    Remove(usize),
-}
-
 /// Draws the recipe panel.
 pub fn recipe_panel_ui(
     ui: &mut Ui,
     project: &mut Project,
     engine: &Engine,
     panels: &mut PanelState,
+    commands: &mut Vec<Command>,
 ) {
     ui.add_space(4.0);
     ui.heading("Recipe");
@@ -54,9 +48,9 @@ pub fn recipe_panel_ui(
         .id_salt("recipe_scroll")
         .auto_shrink([false, false])
         .show(ui, |ui| {
-            lines_ui(ui, project, engine, library, &mut panels.refused);
+            lines_ui(ui, project, engine, library, &mut panels.refused, commands);
             ui.add_space(6.0);
-            batch_ui(ui, project, engine, &mut panels.refused);
+            batch_ui(ui, project, engine, &mut panels.refused, commands);
             let empty = project.recipe.lines.is_empty();
             if let (Some(Err(e)), false) = (engine.report(), empty) {
                 ui.add_space(4.0);
@@ -67,13 +61,14 @@ pub fn recipe_panel_ui(
                 reasons_ui(ui, project, engine, library);
             }
             ui.add_space(8.0);
-            picker_ui(ui, project, library, &mut panels.picker_query);
+            let in_percent = project.recipe.qs_to_g.is_some();
+            picker_ui(ui, in_percent, library, &mut panels.picker_query, commands);
             ui.add_space(8.0);
             super::custom_ingredient::custom_ingredient_ui(
                 ui,
-                project,
                 library,
                 &mut panels.custom,
+                commands,
             );
         });
 }
@@ -84,6 +79,7 @@ fn lines_ui(
     engine: &Engine,
     library: &Library,
     refused: &mut Refusals,
+    commands: &mut Vec<Command>,
 ) {
     let report = engine.solved();
     let n = project.recipe.lines.len();
@@ -94,14 +90,13 @@ fn lines_ui(
         );
         return;
     }
-    let mut action = None;
     // The table scrolls sideways on its own when the panel is narrow; the text below still wraps.
     egui::ScrollArea::horizontal()
         .id_salt("recipe_grid_scroll")
         .show(ui, |ui| {
             egui::Grid::new("recipe_grid")
                 .striped(true)
-                .spacing([10.0, 6.0])
+                .spacing([8.0, 6.0])
                 .show(ui, |ui| {
                     for h in [
                         "On",
@@ -110,8 +105,8 @@ fn lines_ui(
                         "",
                         "Assay",
                         "In batch",
-                        "mol/kg",
-                        "pH",
+                        "mol/kg water",
+                        "Effect on pH",
                         "",
                     ] {
                         ui.label(RichText::new(h).strong());
@@ -120,8 +115,19 @@ fn lines_ui(
                     for (i, line) in project.recipe.lines.iter_mut().enumerate() {
                         let row = i + 1;
                         let entry = library.entry_index(&line.ingredient);
-                        ui.checkbox(&mut line.enabled, "")
-                            .on_hover_text(format!("Use line {row}"));
+                        let mut enabled = line.enabled;
+                        let switch = ui.checkbox(&mut enabled, "");
+                        if super::name_widget(
+                            switch,
+                            egui::Role::CheckBox,
+                            &format!("Use line {row}"),
+                        )
+                        .on_hover_text("Off leaves the line out of the batch without deleting it")
+                        .changed()
+                        {
+                            commands
+                                .push(Command::Edit(RecipeEdit::SetEnabled { line: i, enabled }));
+                        }
                         let name = entry.map_or_else(
                             || format!("{} (not in the library)", line.ingredient),
                             |e| library.entries()[e].ingredient.name.clone(),
@@ -134,10 +140,10 @@ fn lines_ui(
                         });
                         if let Some(e) = entry.map(|e| &library.entries()[e]) {
                             label.on_hover_text(format!(
-                                "{} ({}), {:.2} g/mol{}",
+                                "{}, {:.2} g/mol; id for the command line: {}{}",
                                 e.ingredient.formula,
-                                e.ingredient.id,
                                 e.molar_mass_g_per_mol,
+                                e.ingredient.id,
                                 if e.ingredient.note.is_empty() {
                                     String::new()
                                 } else {
@@ -145,15 +151,8 @@ fn lines_ui(
                                 }
                             ));
                         }
-                        let before = line.amount;
-                        amount_ui(ui, &mut line.amount, row, refused);
-                        if line.amount.unit != before.unit {
-                            // Keep the mass when only the unit changes.
-                            let batch_g = report.map(|r| r.batch.total_mass_g);
-                            let entry = entry.map(|e| &library.entries()[e]);
-                            if let Some(v) = convert(entry, before, line.amount.unit, batch_g) {
-                                line.amount.value = v;
-                            }
+                        if let Some(unit) = amount_ui(ui, &mut line.amount, row, refused) {
+                            commands.push(Command::Edit(RecipeEdit::SetUnit { line: i, unit }));
                         }
                         let a = entry.map_or(f64::NAN, |e| library.entries()[e].ingredient.assay);
                         ui.label(format!("{} %", sig(a * 100.0, 3)));
@@ -164,7 +163,7 @@ fn lines_ui(
                         ui.label(report.map_or("—".into(), |r| sig(r.batch.line_molality(i), 3)));
                         match engine.effects().get(i).and_then(Option::as_ref) {
                             Some(effect) if line.enabled => {
-                                ui.label(effect_text(ui, effect.effect))
+                                ui.label(effect_text(effect.effect))
                                     .on_hover_text(ion_reasons(effect));
                             }
                             _ => {
@@ -174,88 +173,77 @@ fn lines_ui(
                         ui.horizontal(|ui| {
                             if ui
                                 .add_enabled_ui(i > 0, |ui| {
-                                    named_button(ui, "Up", &format!("Move line {row} up"))
+                                    named_button(ui, "↑", &format!("Move line {row} up"))
                                 })
                                 .inner
                                 .clicked()
                             {
-                                action = Some(RowAction::Up(i));
+                                commands.push(Command::Edit(RecipeEdit::MoveUp(i)));
                             }
                             if ui
                                 .add_enabled_ui(i + 1 < n, |ui| {
-                                    named_button(ui, "Down", &format!("Move line {row} down"))
+                                    named_button(ui, "↓", &format!("Move line {row} down"))
                                 })
                                 .inner
                                 .clicked()
                             {
-                                action = Some(RowAction::Down(i));
+                                commands.push(Command::Edit(RecipeEdit::MoveDown(i)));
                             }
                             if named_button(ui, "×", &format!("Remove line {row}")).clicked() {
-                                action = Some(RowAction::Remove(i));
+                                commands.push(Command::Edit(RecipeEdit::RemoveLine(i)));
                             }
                         });
                         ui.end_row();
                     }
                 });
         });
-    if action.is_some() {
-        // Row numbers move: a refusal would be shown beside the wrong line.
-        refused.retain(|name, _| !name.starts_with("Amount of line"));
-    }
-    let lines = &mut project.recipe.lines;
-    match action {
-        Some(RowAction::Up(i)) if i > 0 => lines.swap(i - 1, i),
-        Some(RowAction::Down(i)) if i + 1 < lines.len() => lines.swap(i, i + 1),
-        Some(RowAction::Remove(i)) if i < lines.len() => {
-            lines.remove(i);
-        }
-        _ => {}
-    }
 }
 
-/// The amount of one line: a drag value (click it to type) and its unit.
-fn amount_ui(ui: &mut Ui, amount: &mut Amount, row: usize, refused: &mut Refusals) {
+/// The amount of one line: a drag value (click it to type) and its unit; returns a unit newly
+/// chosen.
+fn amount_ui(ui: &mut Ui, amount: &mut Amount, row: usize, refused: &mut Refusals) -> Option<Unit> {
     let speed = drag_speed(*amount);
     ui.horizontal(|ui| {
         checked_drag(
             ui,
-            DragValue::new(&mut amount.value)
-                .range(AMOUNT.min..=AMOUNT.max)
-                .speed(speed)
-                .min_decimals(1)
-                .max_decimals(4),
-            &format!("Amount of line {row}"),
+            &mut amount.value,
+            |d| {
+                d.range(AMOUNT.min..=AMOUNT.max)
+                    .speed(speed)
+                    .min_decimals(1)
+                    .max_decimals(4)
+            },
+            Field {
+                name: &format!("Amount of line {row}"),
+                hint: "Drag sideways, or click and type; in the unit chosen beside it",
+            },
             AMOUNT,
             refused,
         );
     });
-    egui::ComboBox::from_id_salt(("unit", row))
+    let mut chosen = None;
+    let response = egui::ComboBox::from_id_salt(("unit", row))
         .selected_text(unit_words(amount.unit))
         .width(58.0)
         .show_ui(ui, |ui| {
             for unit in Unit::ALL {
-                ui.selectable_value(&mut amount.unit, unit, unit_words(unit));
+                if ui
+                    .selectable_label(amount.unit == unit, unit_words(unit))
+                    .clicked()
+                    && unit != amount.unit
+                {
+                    chosen = Some(unit);
+                }
             }
         })
-        .response
-        .on_hover_text(format!("Unit of line {row}"));
-}
-
-/// The value in `unit` of the same mass as `amount`, if it can be known.
-fn convert(entry: Option<&Entry>, amount: Amount, unit: Unit, batch_g: Option<f64>) -> Option<f64> {
-    let entry = entry?;
-    let grams = match entry.grams(amount) {
-        Some(g) => g,
-        None => amount.value / 100.0 * batch_g?,
-    };
-    let value = match unit {
-        Unit::Gram => grams,
-        Unit::Kilogram => grams * 1e-3,
-        Unit::Milligram => grams * 1e3,
-        Unit::Mole => grams * entry.ingredient.assay / entry.molar_mass_g_per_mol,
-        Unit::Percent => 100.0 * grams / batch_g.filter(|b| *b > 0.0)?,
-    };
-    value.is_finite().then_some(value)
+        .response;
+    super::name_widget(
+        response,
+        egui::Role::ComboBox,
+        &format!("Unit of line {row}"),
+    )
+    .on_hover_text("Changing the unit keeps the mass where it can be known");
+    chosen
 }
 
 fn drag_speed(amount: Amount) -> f64 {
@@ -275,23 +263,29 @@ fn unit_words(unit: Unit) -> &'static str {
     }
 }
 
-fn batch_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, refused: &mut Refusals) {
+fn batch_ui(
+    ui: &mut Ui,
+    project: &mut Project,
+    engine: &Engine,
+    refused: &mut Refusals,
+    commands: &mut Vec<Command>,
+) {
     let report = engine.solved();
     ui.horizontal_wrapped(|ui| {
         let mut qs = project.recipe.qs_to_g.is_some();
         if ui.checkbox(&mut qs, "Water q.s. to a batch of").changed() {
-            project.recipe.qs_to_g = if qs {
-                Some(report.map_or(1000.0, |r| r.batch.total_mass_g.max(1.0)))
-            } else {
-                None
-            };
+            commands.push(Command::Edit(RecipeEdit::SetQs(qs)));
         }
         if let Some(size) = project.recipe.qs_to_g.as_mut() {
             let speed = (*size * 0.002).max(0.1);
             checked_drag(
                 ui,
-                DragValue::new(size).range(0.001..=BATCH.max).speed(speed),
-                "Batch size",
+                size,
+                |d| d.range(0.001..=BATCH.max).speed(speed),
+                Field {
+                    name: "Batch size",
+                    hint: "The whole batch in grams; water fills what the other lines leave",
+                },
                 BATCH,
                 refused,
             );
@@ -310,13 +304,13 @@ fn batch_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, refused: &mut R
     }
 }
 
-fn effect_text(ui: &Ui, effect: Effect) -> RichText {
-    let (words, color) = match effect {
-        Effect::Acidifies => ("lowers pH", egui::Color32::from_rgb(0xc0, 0x50, 0x40)),
-        Effect::Basifies => ("raises pH", egui::Color32::from_rgb(0x3a, 0x6e, 0xc8)),
-        Effect::Neutral => ("no effect", ui.visuals().weak_text_color()),
-    };
-    RichText::new(words).color(color)
+/// The effect in the words used everywhere; no colour, so none is spent on it.
+fn effect_text(effect: Effect) -> RichText {
+    let text = RichText::new(effect.words());
+    match effect {
+        Effect::Acidifies | Effect::Basifies => text.strong(),
+        Effect::Neutral => text.weak(),
+    }
 }
 
 fn ion_reasons(effect: &IngredientEffect) -> String {
@@ -344,7 +338,7 @@ fn reasons_ui(ui: &mut Ui, project: &Project, engine: &Engine, library: &Library
                     let head = RichText::new(format!("{}. {name}:", i + 1)).strong();
                     if line.enabled {
                         ui.label(head);
-                        ui.label(effect_text(ui, effect.effect));
+                        ui.label(effect_text(effect.effect));
                         ui.label(format!("— {}", effect.summary))
                             .on_hover_text(ion_reasons(effect));
                     } else {
@@ -356,7 +350,13 @@ fn reasons_ui(ui: &mut Ui, project: &Project, engine: &Engine, library: &Library
         });
 }
 
-fn picker_ui(ui: &mut Ui, project: &mut Project, library: &Library, query: &mut String) {
+fn picker_ui(
+    ui: &mut Ui,
+    in_percent: bool,
+    library: &Library,
+    query: &mut String,
+    commands: &mut Vec<Command>,
+) {
     ui.label(RichText::new("Add an ingredient").strong());
     let label = ui.label("Search the library");
     ui.add(
@@ -365,7 +365,7 @@ fn picker_ui(ui: &mut Ui, project: &mut Project, library: &Library, query: &mut 
             .desired_width(f32::INFINITY),
     )
     .labelled_by(label.id)
-    .on_hover_text("Type part of a name, formula or id");
+    .on_hover_text("Part of a name, a formula or a command-line id; matches are listed below");
     let needle = query.trim().to_lowercase();
     let matches: Vec<usize> = library
         .entries()
@@ -392,7 +392,7 @@ fn picker_ui(ui: &mut Ui, project: &mut Project, library: &Library, query: &mut 
                 ui.horizontal(|ui| {
                     let name = &e.ingredient.name;
                     if named_button(ui, &format!("+ {name}"), &format!("Add {name}")).clicked() {
-                        let amount = if project.recipe.qs_to_g.is_some() {
+                        let amount = if in_percent {
                             Amount {
                                 value: 1.0,
                                 unit: Unit::Percent,
@@ -400,11 +400,11 @@ fn picker_ui(ui: &mut Ui, project: &mut Project, library: &Library, query: &mut 
                         } else {
                             Amount::grams(1.0)
                         };
-                        project.recipe.lines.push(RecipeLine {
+                        commands.push(Command::Edit(RecipeEdit::AddLine(RecipeLine {
                             ingredient: e.ingredient.id.clone(),
                             amount,
                             enabled: true,
-                        });
+                        })));
                     }
                     ui.weak(format!(
                         "{} · assay {} %",

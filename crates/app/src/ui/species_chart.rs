@@ -2,22 +2,25 @@
 //! ionic strength, the current pH, the dominant form, and the molality of each form.
 
 use egui::{Color32, RichText, Ui};
-use egui_plot::{Line, Plot, VLine};
+use egui_plot::{Corner, Legend, Line, LineStyle, Plot, VLine};
 use saltwise_chem::project::Settings;
 
-use super::sig;
+use super::{SPECIES, sig};
 use crate::engine::Engine;
 
-/// Colours of the forms, in order.
-const PALETTE: [Color32; 7] = [
-    Color32::from_rgb(0xc0, 0x50, 0x40),
-    Color32::from_rgb(0x3a, 0x6e, 0xc8),
-    Color32::from_rgb(0x2e, 0x9d, 0x6b),
-    Color32::from_rgb(0x8e, 0x44, 0xad),
-    Color32::from_rgb(0xd9, 0x8c, 0x00),
-    Color32::from_rgb(0x1f, 0x9e, 0xb5),
-    Color32::from_rgb(0x80, 0x80, 0x80),
-];
+/// The colour of form `j`.
+fn color(j: usize) -> Color32 {
+    SPECIES[j % SPECIES.len()]
+}
+
+/// Solid for even forms, dashed for odd ones, so neighbours differ by more than colour.
+fn style(j: usize) -> LineStyle {
+    if j.is_multiple_of(2) {
+        LineStyle::Solid
+    } else {
+        LineStyle::dashed_dense()
+    }
+}
 
 /// Draws the species panel.
 pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
@@ -40,7 +43,7 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
     };
     ui.horizontal_wrapped(|ui| {
         ui.label("System");
-        egui::ComboBox::from_id_salt("species_system")
+        let response = egui::ComboBox::from_id_salt("species_system")
             .selected_text(&data.system_name)
             .width(240.0)
             .show_ui(ui, |ui| {
@@ -54,8 +57,10 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
                     }
                 }
             })
-            .response
-            .on_hover_text("Species system");
+            .response;
+        super::name_widget(response, egui::Role::ComboBox, "Species system").on_hover_text(
+            "Every acid–base system in the recipe is listed; its forms are charted below",
+        );
     });
     let ph = report.solution.ph;
     let dominant = data.forms.get(data.dominant).cloned().unwrap_or_default();
@@ -71,6 +76,7 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
         ))
         .strong(),
     );
+    let current = super::current_color(ui);
     Plot::new("species_plot")
         .height(super::dose_curve::chart_height(ui))
         .x_grid_spacer(egui_plot::uniform_grid_spacer(|_| [1.0, 2.0, 4.0]))
@@ -80,6 +86,7 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
         .include_x(14.0)
         .include_y(0.0)
         .include_y(1.05)
+        .legend(Legend::default().position(Corner::RightTop))
         .allow_zoom(false)
         .allow_drag(false)
         .allow_scroll(false)
@@ -93,19 +100,20 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
         .show(ui, |plot| {
             for (j, (name, points)) in data.forms.iter().zip(&data.curves).enumerate() {
                 plot.line(
-                    Line::new(name.clone(), points.clone())
+                    Line::new(name.clone(), points.as_slice())
                         .width(2.0)
-                        .color(PALETTE[j % PALETTE.len()]),
+                        .style(style(j))
+                        .color(color(j)),
                 );
             }
             plot.vline(
-                VLine::new(format!("recipe pH {ph:.2}"), ph)
-                    .color(Color32::GRAY)
+                VLine::new(format!("current recipe, pH {ph:.2}"), ph)
+                    .color(current)
                     .width(1.5),
             );
         });
     ui.label(format!(
-        "Fractions at ionic strength {} mol/kg; colours as in the table, grey line at the recipe's pH.",
+        "Fractions at ionic strength {} mol/kg water; colours and dashes as in the legend and the table.",
         sig(data.ionic_strength, 3)
     ));
     egui::Grid::new("species_table")
@@ -114,10 +122,10 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
         .show(ui, |ui| {
             ui.label(RichText::new("Form").strong());
             ui.label(RichText::new("Fraction").strong());
-            ui.label(RichText::new("mol/kg").strong());
+            ui.label(RichText::new("mol/kg water").strong());
             ui.end_row();
             for (j, name) in data.forms.iter().enumerate() {
-                let text = RichText::new(name).color(PALETTE[j % PALETTE.len()]);
+                let text = RichText::new(name).color(color(j));
                 ui.label(if j == data.dominant {
                     text.strong()
                 } else {

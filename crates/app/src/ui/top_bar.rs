@@ -1,18 +1,28 @@
 //! The bar along the top: file, edit and view menus, the project name, the unsaved-changes
 //! question and the status line.
 
+use std::path::PathBuf;
+
 use egui::{Button, Key, KeyboardShortcut, Modifiers, RichText, Ui};
 
-use crate::app::Workbench;
+use crate::autosave::Offer;
 use crate::command::{Command, Resolution};
+use crate::document::Document;
+use crate::messages::Messages;
 
-/// Draws the top bar.
-pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
+/// Draws the top bar; the project name is typed straight into the document.
+pub fn top_bar_ui(
+    ui: &mut Ui,
+    doc: &mut Document,
+    messages: &Messages,
+    offer: Option<&Offer>,
+    recent: &[PathBuf],
+    commands: &mut Vec<Command>,
+) {
     let ctx = ui.ctx().clone();
     let shortcut = |m: Modifiers, k: Key| ctx.format_shortcut(&KeyboardShortcut::new(m, k));
     let cmd = Modifiers::COMMAND;
     let shift = Modifiers::COMMAND | Modifiers::SHIFT;
-    let mut commands = Vec::new();
     egui::MenuBar::new().ui(ui, |ui| {
         ui.menu_button("File", |ui| {
             let item = |ui: &mut Ui, text: &str, keys: Option<String>| {
@@ -32,10 +42,10 @@ pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
                 commands.push(Command::OpenDemo);
             }
             ui.menu_button("Open recent", |ui| {
-                if app.config.recent_files.is_empty() {
+                if recent.is_empty() {
                     ui.label("No recent projects yet");
                 }
-                for path in &app.config.recent_files {
+                for path in recent {
                     if ui.button(path.display().to_string()).clicked() {
                         commands.push(Command::OpenPath(path.clone()));
                     }
@@ -55,11 +65,11 @@ pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
         });
         ui.menu_button("Edit", |ui| {
             let undo = Button::new("Undo").shortcut_text(shortcut(cmd, Key::Z));
-            if ui.add_enabled(app.history.can_undo(), undo).clicked() {
+            if ui.add_enabled(doc.can_undo(), undo).clicked() {
                 commands.push(Command::Undo);
             }
             let redo = Button::new("Redo").shortcut_text(shortcut(shift, Key::Z));
-            if ui.add_enabled(app.history.can_redo(), redo).clicked() {
+            if ui.add_enabled(doc.can_redo(), redo).clicked() {
                 commands.push(Command::Redo);
             }
         });
@@ -80,21 +90,21 @@ pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
         ui.separator();
         let label = ui.label("Project");
         ui.add(
-            egui::TextEdit::singleline(&mut app.project.name)
+            egui::TextEdit::singleline(&mut doc.project_mut().name)
                 .desired_width(320.0)
                 .hint_text("name of this project"),
         )
         .labelled_by(label.id);
-        if let Some(path) = &app.file {
+        if let Some(path) = doc.file() {
             ui.weak(path.display().to_string());
         } else {
             ui.weak("not saved to a file yet");
         }
-        if app.is_dirty() {
-            ui.label(RichText::new("• unsaved changes").color(super::WARN));
+        if doc.is_dirty() {
+            ui.label(RichText::new("• Unsaved changes").strong());
         }
     });
-    if let Some(prompt) = &app.prompt {
+    if let Some(prompt) = messages.prompt() {
         egui::Frame::group(ui.style())
             .fill(ui.visuals().warn_fg_color.gamma_multiply(0.15))
             .show(ui, |ui| {
@@ -112,7 +122,7 @@ pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
                 });
             });
     }
-    if let Some(offer) = &app.recovery_offer {
+    if let Some(offer) = offer {
         egui::Frame::group(ui.style())
             .fill(ui.visuals().warn_fg_color.gamma_multiply(0.15))
             .show(ui, |ui| {
@@ -120,8 +130,9 @@ pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
                 ui.label(
                     RichText::new(format!(
                         "Unsaved work from a session that did not close was kept {}{}.",
-                        offer.age_words(),
-                        app.recovery_summary
+                        offer.left.age_words(),
+                        offer
+                            .summary
                             .as_ref()
                             .map_or_else(String::new, |s| format!(": {s}"))
                     ))
@@ -134,19 +145,16 @@ pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
                     if ui.button("Throw it away").clicked() {
                         commands.push(Command::DiscardRecovery);
                     }
-                    let more = if app.more_left_behind > 0 {
-                        format!(
-                            " ({} older copies are in the same folder.)",
-                            app.more_left_behind
-                        )
+                    let more = if offer.more > 0 {
+                        format!(" ({} older copies are in the same folder.)", offer.more)
                     } else {
                         String::new()
                     };
-                    ui.weak(format!("Kept at {}.{more}", offer.path.display()));
+                    ui.weak(format!("Kept at {}.{more}", offer.left.path.display()));
                 });
             });
     }
-    if let Some(notice) = &app.notice {
+    if let Some(notice) = messages.notice() {
         egui::Frame::group(ui.style())
             .fill(super::ERROR.gamma_multiply(0.12))
             .show(ui, |ui| {
@@ -161,15 +169,12 @@ pub fn top_bar_ui(ui: &mut Ui, app: &mut Workbench) {
                 ui.label(RichText::new(&notice.consequence).weak());
             });
     }
-    if let Some(status) = &app.status {
+    if let Some(status) = messages.current_status() {
         let text = RichText::new(&status.text).small();
         ui.label(if status.is_error {
             text.color(super::ERROR)
         } else {
             text.weak()
         });
-    }
-    for c in commands {
-        app.queue(c);
     }
 }
