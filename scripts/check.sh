@@ -1,10 +1,12 @@
 #!/usr/bin/env bash
-# Exactly what CI runs: format, lints, the test suite, the workbench kill-and-recover check under
-# Xvfb, and the Python reference checks.
+# Exactly what CI runs: format, lints, documentation, the test suite, the workbench
+# kill-and-recover check under Xvfb, and the Python reference checks.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 cargo fmt --all -- --check
 cargo clippy --workspace --all-targets -- -D warnings
+# Documentation builds without warnings (broken or private intra-doc links and the like).
+RUSTDOCFLAGS="-D warnings" cargo doc --workspace --no-deps
 cargo test --workspace
 # The real workbench killed with SIGKILL and restarted under Xvfb: its unsaved work is offered back.
 if command -v Xvfb >/dev/null 2>&1 && command -v xdotool >/dev/null 2>&1; then

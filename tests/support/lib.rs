@@ -23,7 +23,7 @@ pub fn molal_recipe(library: &Library, items: &[(&str, f64)]) -> Recipe {
         };
         let mass_g = molality * e.molar_mass_g_per_mol / e.ingredient.assay;
         let brought_g = mass_g * (1.0 - e.ingredient.assay)
-            + molality * e.water_mol_per_mol * saltwise_chem::library::WATER_G_PER_MOL;
+            + molality * e.water_mol_per_mol * saltwise_chem::formula::WATER_MOLAR_MASS_G_PER_MOL;
         water_g -= brought_g;
         lines.push(RecipeLine {
             ingredient: id.into(),

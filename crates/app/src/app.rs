@@ -24,6 +24,9 @@ use crate::ui;
 /// A failure injected into saves between writing the temporary file and renaming it (tests).
 pub type SaveFault = Box<dyn Fn(&Path) -> std::io::Result<()>>;
 
+/// Width from which the dose curve and the species chart stand side by side, points.
+const CHARTS_SIDE_BY_SIDE_POINTS: f32 = 640.0;
+
 /// The whole workbench: the saved project apart from what is only kept while running.
 pub struct Workbench {
     pub(crate) doc: Document,
@@ -247,8 +250,8 @@ impl Workbench {
         let project = self.doc.project_mut();
         egui::Panel::left("recipe_panel")
             .resizable(true)
-            .default_size((ctx.content_rect().width() * 0.48).clamp(480.0, 760.0))
-            .min_size(360.0)
+            .default_size((ctx.content_rect().width() * 0.48).clamp(300.0, 760.0))
+            .min_size(300.0)
             .show(ui, |ui| {
                 ui::recipe_table::recipe_panel_ui(
                     ui,
@@ -259,7 +262,8 @@ impl Workbench {
                 );
             });
         egui::CentralPanel::default().show(ui, |ui| {
-            egui::ScrollArea::vertical()
+            // Both ways: in the smallest window nothing is cut off, it scrolls.
+            egui::ScrollArea::both()
                 .id_salt("results_scroll")
                 .auto_shrink([false, false])
                 .show(ui, |ui| {
@@ -271,20 +275,34 @@ impl Workbench {
                     );
                     ui::cautions::cautions_ui(ui, &self.engine);
                     ui.add_space(6.0);
-                    ui.columns(2, |cols| {
+                    // Side by side when there is room, one under the other when not.
+                    let settings = &mut project.settings;
+                    if ui.available_width() >= CHARTS_SIDE_BY_SIDE_POINTS {
+                        ui.columns(2, |cols| {
+                            ui::dose_curve::dose_curve_ui(
+                                &mut cols[0],
+                                settings,
+                                &self.engine,
+                                &mut self.panels,
+                                &mut commands,
+                            );
+                            ui::species_chart::species_chart_ui(
+                                &mut cols[1],
+                                settings,
+                                &self.engine,
+                            );
+                        });
+                    } else {
                         ui::dose_curve::dose_curve_ui(
-                            &mut cols[0],
-                            &mut project.settings,
+                            ui,
+                            settings,
                             &self.engine,
                             &mut self.panels,
                             &mut commands,
                         );
-                        ui::species_chart::species_chart_ui(
-                            &mut cols[1],
-                            &mut project.settings,
-                            &self.engine,
-                        );
-                    });
+                        ui.add_space(8.0);
+                        ui::species_chart::species_chart_ui(ui, settings, &self.engine);
+                    }
                 });
         });
         self.queue.extend(commands);

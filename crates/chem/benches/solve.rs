@@ -7,7 +7,7 @@ use std::hint::black_box;
 use criterion::{Criterion, criterion_group, criterion_main};
 use saltwise_chem::curve::Doser;
 use saltwise_chem::solver::{self, fractions_against_ph};
-use saltwise_chem::{Conditions, Constants, Library, Recipe, RecipeLine};
+use saltwise_chem::{Conditions, Constants, Library, Recipe};
 
 /// Twelve ingredients, three polyprotic systems (citric, phosphoric, carbonic) and four more.
 fn twelve_ingredients() -> Recipe {
@@ -25,13 +25,7 @@ fn twelve_ingredients() -> Recipe {
         ("glycine", 0.5),
         ("sodium_sulfate", 1.0),
     ];
-    Recipe {
-        lines: items
-            .iter()
-            .map(|(id, g)| RecipeLine::grams(id, *g))
-            .collect(),
-        qs_to_g: None,
-    }
+    Recipe::in_grams(&items)
 }
 
 fn benches(c: &mut Criterion) {

@@ -289,29 +289,6 @@ impl<'a> Doser<'a> {
     }
 }
 
-/// Sweeps a dose curve of an adjuster over a batch.
-pub fn dose_curve(
-    library: &Library,
-    constants: &Constants,
-    batch: &Batch,
-    adjuster_id: &str,
-    max_g: f64,
-    points: usize,
-) -> Result<DoseCurve, DoseError> {
-    Ok(Doser::new(library, constants, batch, adjuster_id)?.curve(max_g, points))
-}
-
-/// The dose of an adjuster that brings a batch to a target pH.
-pub fn dose_to_target(
-    library: &Library,
-    constants: &Constants,
-    batch: &Batch,
-    adjuster_id: &str,
-    target_ph: f64,
-) -> Result<DoseResult, DoseError> {
-    Doser::new(library, constants, batch, adjuster_id)?.to_target(target_ph)
-}
-
 /// Equivalence points: sharp local maxima of |dpH/d(dose)| along a curve.
 pub fn equivalence_points(points: &[CurvePoint]) -> Vec<EquivalencePoint> {
     if points.len() < 5 {

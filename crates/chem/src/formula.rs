@@ -125,11 +125,6 @@ impl Formula {
     }
 }
 
-/// Molar mass in g/mol of a formula given as text.
-pub fn molar_mass_g_per_mol(text: &str) -> Result<f64, FormulaError> {
-    Formula::parse(text).map(|f| f.molar_mass_g_per_mol())
-}
-
 /// Standard atomic weight of an element symbol, if it is one we carry.
 pub fn atomic_weight(symbol: &str) -> Option<f64> {
     ATOMIC_WEIGHTS

@@ -8,6 +8,7 @@
 
 #![deny(missing_docs)]
 
+pub mod amount;
 pub mod curve;
 pub mod error;
 pub mod explain;
@@ -20,8 +21,9 @@ pub mod report;
 pub mod reserve;
 pub mod solver;
 
+pub use amount::{Amount, Unit};
 pub use error::{DoseError, FormulaError, LibraryError, ProjectError, RecipeError};
 pub use library::{Hazard, Ingredient, Library};
-pub use recipe::{Amount, Batch, Recipe, RecipeLine, Unit};
+pub use recipe::{Batch, Recipe, RecipeLine};
 pub use report::{Report, evaluate};
 pub use solver::{ActivityModel, Conditions, Constants, Solution, SolveStatus};

@@ -1,8 +1,9 @@
 //! The built-in ingredient library: it loads, carries every required ingredient, its molar masses
-//! agree with handbook values, every ingredient is neutral and every system names its source.
+//! agree with handbook values and every system names its source; and the loader refuses invalid
+//! data with a message naming the field and what is allowed.
 
-use saltwise_chem::Library;
-use saltwise_chem::library::{ResolvedRelease, form_names};
+use saltwise_chem::library::{Ingredient, Ion, LibraryData, Release, System, form_names};
+use saltwise_chem::{Library, LibraryError};
 
 /// Ingredient ids the product promises in its built-in library.
 const REQUIRED: &[&str] = &[
@@ -91,7 +92,7 @@ fn molar_masses_match_handbook_values() {
     let lib = Library::built_in().unwrap();
     // (ingredient id, handbook molar mass in g/mol); the source of each group is in the comment above it.
     let cases: &[(&str, f64)] = &[
-        // CRC Handbook of Chemistry and Physics, from memory (check-values.md §5):
+        // CRC Handbook of Chemistry and Physics, from memory:
         ("sodium_chloride", 58.44),
         ("sodium_hydroxide", 40.00),
         ("sodium_carbonate", 105.99),
@@ -103,7 +104,7 @@ fn molar_masses_match_handbook_values() {
         ("potassium_hydrogen_phthalate", 204.22),
         ("borax", 381.37),
         ("triethanolamine", 149.19),
-        // Harris, Quantitative Chemical Analysis, buffer chapter, from memory (check-values.md §4):
+        // Harris, Quantitative Chemical Analysis, buffer chapter, from memory:
         ("tris", 121.135),
         ("tris_hydrochloride", 157.596),
         // CRC Handbook of Chemistry and Physics, physical constants of inorganic compounds, from memory:
@@ -168,31 +169,297 @@ fn hydrate_and_hydrolysis_water() {
     }
 }
 
+/// A small valid library: the reserved ions, sodium and chloride, acetic acid and sodium acetate.
+fn small() -> LibraryData {
+    let ion = |id: &str, symbol: &str, charge: i32| Ion {
+        id: id.into(),
+        symbol: symbol.into(),
+        charge,
+        conjugate_of: "test".into(),
+    };
+    LibraryData {
+        systems: vec![acetic()],
+        ions: vec![
+            ion("hydron", "H+", 1),
+            ion("hydroxide", "OH-", -1),
+            ion("sodium", "Na+", 1),
+            ion("chloride", "Cl-", -1),
+        ],
+        ingredients: vec![sodium_acetate()],
+    }
+}
+
+/// Acetic acid with its Goldberg 2002 constants (from memory); any valid values would do.
+fn acetic() -> System {
+    System {
+        id: "acetic".into(),
+        name: "acetic acid".into(),
+        charge_of_fully_protonated: 0,
+        forms: vec!["acetic acid".into(), "acetate".into()],
+        pka: vec![4.756],
+        dh_kj_mol: vec![-0.41],
+        dcp_j_mol_k: vec![],
+        pka_ionic_strength: 0.0,
+        source: "Goldberg, Kishore & Lennen 2002 (from memory)".into(),
+    }
+}
+
+fn sodium_acetate() -> Ingredient {
+    Ingredient {
+        id: "sodium_acetate".into(),
+        name: "sodium acetate".into(),
+        formula: "NaC2H3O2".into(),
+        assay: 1.0,
+        releases: vec![
+            Release::Ion {
+                id: "sodium".into(),
+                count: 1,
+            },
+            Release::System {
+                id: "acetic".into(),
+                count: 1,
+                form: 1,
+            },
+        ],
+        water_per_formula: None,
+        hazards: vec![],
+        note: "test".into(),
+    }
+}
+
+/// The loader's refusal of `data`, as text; panics when it is accepted.
+fn refusal(data: LibraryData) -> String {
+    match Library::from_data(data) {
+        Ok(_) => panic!("the loader accepted invalid data"),
+        Err(e) => e.to_string(),
+    }
+}
+
+/// Asserts that a message contains every part.
+fn says(message: &str, parts: &[&str]) {
+    for part in parts {
+        assert!(message.contains(part), "{message:?} lacks {part:?}");
+    }
+}
+
 #[test]
-fn every_ingredient_is_neutral() {
-    let lib = Library::built_in().unwrap();
-    for entry in lib.entries() {
-        let charge: f64 = entry
-            .releases
-            .iter()
-            .map(|r| match *r {
-                ResolvedRelease::Ion { ion, count } => f64::from(lib.ions()[ion].charge) * count,
-                ResolvedRelease::System {
-                    system,
-                    count,
-                    form,
-                } => {
-                    let s = &lib.systems()[system];
-                    (f64::from(s.charge_of_fully_protonated) - f64::from(form)) * count
-                }
-            })
-            .sum();
-        assert!(
-            charge.abs() < 1e-12,
-            "{} releases charge {charge}",
-            entry.ingredient.id
+fn the_small_library_loads() {
+    let lib = Library::from_data(small()).unwrap();
+    assert_eq!(lib.entries().len(), 1);
+    assert_eq!(lib.systems().len(), 1);
+}
+
+#[test]
+fn a_charged_ingredient_is_refused() {
+    let mut d = small();
+    // Na+ twice with one acetate: charge +1.
+    d.ingredients[0].releases[0] = Release::Ion {
+        id: "sodium".into(),
+        count: 2,
+    };
+    says(
+        &refusal(d),
+        &[
+            "ingredient 'sodium_acetate'",
+            "charge +1",
+            "must be neutral",
+        ],
+    );
+}
+
+#[test]
+fn unknown_ions_and_systems_are_refused() {
+    let mut d = small();
+    d.ingredients[0].releases[0] = Release::Ion {
+        id: "sodum".into(),
+        count: 1,
+    };
+    says(&refusal(d), &["sodium_acetate", "unknown ion 'sodum'"]);
+    let mut d = small();
+    d.ingredients[0].releases[1] = Release::System {
+        id: "acetc".into(),
+        count: 1,
+        form: 1,
+    };
+    says(&refusal(d), &["sodium_acetate", "unknown system 'acetc'"]);
+}
+
+#[test]
+fn a_form_out_of_range_is_refused() {
+    let mut d = small();
+    d.ingredients[0].releases[1] = Release::System {
+        id: "acetic".into(),
+        count: 1,
+        form: 2,
+    };
+    says(
+        &refusal(d),
+        &["form 2 of 'acetic' does not exist", "forms 0 to 1"],
+    );
+}
+
+#[test]
+fn duplicate_ids_are_refused() {
+    let mut d = small();
+    d.ingredients.push(sodium_acetate());
+    says(&refusal(d), &["ingredient 'sodium_acetate'", "used twice"]);
+    let mut d = small();
+    d.systems.push(acetic());
+    says(&refusal(d), &["system 'acetic'", "already used"]);
+    // Systems and ions share one name space.
+    let mut d = small();
+    d.ions[2].id = "acetic".into();
+    says(&refusal(d), &["ion 'acetic'", "already used"]);
+}
+
+#[test]
+fn bad_id_characters_are_refused() {
+    for id in ["Sodium_Acetate", "sodium acetate", "sodium-acetate", ""] {
+        let mut d = small();
+        d.ingredients[0].id = id.into();
+        says(&refusal(d), &["lower-case letters, digits and '_'"]);
+    }
+}
+
+#[test]
+fn pka_values_out_of_range_are_refused() {
+    for pka in [25.0, -6.0, f64::NAN] {
+        let mut d = small();
+        d.systems[0].pka = vec![pka];
+        says(&refusal(d), &["system 'acetic'", "pKa1 =", "outside −5…20"]);
+    }
+    let mut d = small();
+    d.systems[0].pka = vec![];
+    d.systems[0].dh_kj_mol = vec![];
+    d.systems[0].forms = vec![];
+    says(&refusal(d), &["0 pKa values", "1 to 10 are allowed"]);
+}
+
+#[test]
+fn a_wrong_number_of_enthalpies_or_forms_is_refused() {
+    let mut d = small();
+    d.systems[0].dh_kj_mol = vec![-0.41, 1.0];
+    says(
+        &refusal(d),
+        &[
+            "system 'acetic'",
+            "1 pKa values but 2 ΔH° values",
+            "one ΔH° per step",
+        ],
+    );
+    let mut d = small();
+    d.systems[0].dcp_j_mol_k = vec![-142.0, 0.0];
+    says(&refusal(d), &["more ΔCp° values than steps"]);
+    let mut d = small();
+    d.systems[0].forms = vec!["acetic acid".into()];
+    says(&refusal(d), &["names 1 forms", "with 1 steps has 2"]);
+    let mut d = small();
+    d.systems[0].dh_kj_mol = vec![2000.0];
+    says(&refusal(d), &["finite and under 1000"]);
+    let mut d = small();
+    d.systems[0].pka_ionic_strength = 6.0;
+    says(
+        &refusal(d),
+        &["pka_ionic_strength", "between 0 and 5 mol/kg"],
+    );
+}
+
+#[test]
+fn a_system_without_a_source_is_refused() {
+    let mut d = small();
+    d.systems[0].source = "  ".into();
+    says(&refusal(d), &["system 'acetic'", "needs the source"]);
+}
+
+#[test]
+fn an_assay_outside_zero_to_one_is_refused() {
+    for assay in [0.0, 1.5, -0.2, f64::NAN] {
+        let mut d = small();
+        d.ingredients[0].assay = assay;
+        says(
+            &refusal(d),
+            &["sodium_acetate", "outside (0, 1]", "mass fraction"],
         );
     }
+}
+
+#[test]
+fn a_release_count_of_zero_is_refused() {
+    let mut d = small();
+    d.ingredients[0].releases[0] = Release::Ion {
+        id: "sodium".into(),
+        count: 0,
+    };
+    says(&refusal(d), &["sodium_acetate", "count must be 1 or more"]);
+}
+
+#[test]
+fn bad_formulas_and_water_are_refused() {
+    let mut d = small();
+    d.ingredients[0].formula = "NaC2H3O2Xq".into();
+    says(&refusal(d), &["sodium_acetate", "formula 'NaC2H3O2Xq'"]);
+    let mut d = small();
+    d.ingredients[0].water_per_formula = Some(-1.0);
+    says(&refusal(d), &["water_per_formula must be 0 or more"]);
+}
+
+#[test]
+fn ion_charges_and_reserved_ions_are_checked() {
+    for charge in [0, 7, -7] {
+        let mut d = small();
+        d.ions[3].charge = charge;
+        says(
+            &refusal(d),
+            &[
+                "ion 'chloride'",
+                &format!("charge {charge} is not allowed"),
+                "−6 and +6",
+            ],
+        );
+    }
+    let mut d = small();
+    d.ions.remove(0);
+    says(&refusal(d), &["must define 'hydron' with charge +1"]);
+    let mut d = small();
+    d.ions[1].charge = -2;
+    says(&refusal(d), &["must define 'hydroxide' with charge -1"]);
+}
+
+#[test]
+fn extending_refuses_what_loading_refuses() {
+    let mut lib = Library::from_data(small()).unwrap();
+    let again = LibraryData {
+        systems: vec![acetic()],
+        ..LibraryData::default()
+    };
+    let e = lib.extend(again).unwrap_err().to_string();
+    says(&e, &["system 'acetic'", "already used"]);
+    let mut charged = sodium_acetate();
+    charged.id = "custom_acetate".into();
+    charged.releases.pop();
+    let e = lib
+        .extend(LibraryData {
+            ingredients: vec![charged],
+            ..LibraryData::default()
+        })
+        .unwrap_err()
+        .to_string();
+    says(&e, &["custom_acetate", "charge +1"]);
+    let mut fine = sodium_acetate();
+    fine.id = "custom_acetate".into();
+    lib.extend(LibraryData {
+        ingredients: vec![fine],
+        ..LibraryData::default()
+    })
+    .unwrap();
+    assert!(lib.entry("custom_acetate").is_some());
+}
+
+#[test]
+fn syntax_errors_name_the_origin_line_and_column() {
+    let e = Library::from_ron("(systems: [\n  (id: ]\n)", "my.ron").unwrap_err();
+    assert!(matches!(e, LibraryError::Syntax { line: 2, .. }), "{e:?}");
+    says(&e.to_string(), &["my.ron line 2, column"]);
 }
 
 #[test]
@@ -236,8 +503,7 @@ fn constants_of_the_check_table() {
         let s = &lib.systems()[lib.system_index(id).unwrap()];
         s.pka.clone()
     };
-    // Goldberg, Kishore & Lennen, J. Phys. Chem. Ref. Data 31 (2002) 231, from memory
-    // (check-values.md §3).
+    // Goldberg, Kishore & Lennen, J. Phys. Chem. Ref. Data 31 (2002) 231, from memory.
     assert_eq!(pka("acetic"), [4.756]);
     assert_eq!(pka("citric"), [3.128, 4.761, 6.396]);
     assert_eq!(pka("phosphoric"), [2.148, 7.198, 12.35]);
@@ -246,7 +512,7 @@ fn constants_of_the_check_table() {
     assert_eq!(pka("ammonium"), [9.245]);
     assert_eq!(pka("tris"), [8.072]);
     assert_eq!(pka("phthalic"), [2.950, 5.408]);
-    // CRC Handbook, from memory (check-values.md §3).
+    // CRC Handbook, from memory.
     assert_eq!(pka("formic"), [3.75]);
     assert_eq!(pka("lactic"), [3.86]);
     assert_eq!(pka("benzoic"), [4.20]);

@@ -14,7 +14,8 @@ pub struct Cli {
 
 #[derive(Debug, Subcommand)]
 pub enum Command {
-    /// pH, p[H], ionic strength, buffer capacity and species of a recipe.
+    /// The solved state of a recipe (help text below; brackets in a doc comment read as a link).
+    #[command(about = "pH, p[H], ionic strength, buffer capacity and species of a recipe.")]
     Ph(RecipeArgs),
     /// pH against the dose of an ingredient added to the recipe.
     Curve(CurveArgs),

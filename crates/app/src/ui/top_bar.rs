@@ -91,7 +91,7 @@ pub fn top_bar_ui(
         let label = ui.label("Project");
         ui.add(
             egui::TextEdit::singleline(&mut doc.project_mut().name)
-                .desired_width(320.0)
+                .desired_width((ui.available_width() * 0.4).clamp(120.0, 320.0))
                 .hint_text("name of this project"),
         )
         .labelled_by(label.id);

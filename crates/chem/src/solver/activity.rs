@@ -69,7 +69,7 @@ mod tests {
 
     #[test]
     fn a_at_25_c_is_in_the_published_range() {
-        // A = 0.5085–0.5115 at 25 °C across dielectric data (shared/reference/check-values.md §2).
+        // A = 0.5085–0.5115 at 25 °C across dielectric data (Davies A with the dielectric data in use, from memory).
         let a = debye_huckel_a(25.0);
         assert!((0.5085..=0.5115).contains(&a), "{a}");
         // Rises with temperature: 0.4902 (0 °C) to 0.5324 (50 °C), same source, ±0.002.

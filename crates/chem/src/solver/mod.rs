@@ -1,8 +1,8 @@
 //! The equilibrium solver: constants at a temperature, the charge balance and its safeguarded Newton.
 //!
 //! The pieces are kept apart so that more unknowns (free metal and free ligand for complexation
-//! and precipitation) can join later: [`species`] turns free activities into every species'
-//! molality; [`balance`] sums them into residuals and their derivatives; [`newton`] drives the
+//! and precipitation) can join later: `species.rs` turns free activities into every species'
+//! molality; `balance.rs` sums them into residuals and their derivatives; `newton.rs` drives the
 //! unknowns to zero residual inside a bracket; the outer loop here makes the ionic strength
 //! self-consistent.
 
@@ -114,17 +114,6 @@ impl Constants {
     pub fn pkw(&self) -> f64 {
         -self.kw.log10()
     }
-
-    /// Activity coefficient of charge z at an ionic strength.
-    pub fn gamma(&self, z: i32, ionic_strength: f64) -> f64 {
-        let f = activity::davies_function(ionic_strength);
-        10f64.powf(activity::log_gamma(
-            self.conditions.activity,
-            self.davies_a,
-            z,
-            f,
-        ))
-    }
 }
 
 /// Molal totals of a solution: what the charge balance needs.
@@ -160,7 +149,7 @@ pub enum SolveStatus {
 pub struct Solution {
     /// pH as a meter reads it, −log10 a(H⁺).
     pub ph: f64,
-    /// p[H], −log10 of the H⁺ molality.
+    /// p\[H\], −log10 of the H⁺ molality.
     pub p_h_conc: f64,
     /// Ionic strength, mol/kg.
     pub ionic_strength: f64,
@@ -224,11 +213,7 @@ pub fn solve(constants: &Constants, composition: &Composition, guess: Option<Gue
         ph = inner.x;
         evaluated = inner.at_x;
         if inner.status != newton::Status::Converged {
-            status = match inner.status {
-                newton::Status::BelowBracket => SolveStatus::BelowRange,
-                newton::Status::AboveBracket => SolveStatus::AboveRange,
-                _ => SolveStatus::NotConverged,
-            };
+            status = status_of(inner.status);
             // Out of range at a guessed ionic strength proves nothing: only conclude it once
             // the ionic strength at the range end is self-consistent.
             let gap = inner.ionic_strength - ionic;
@@ -260,6 +245,39 @@ pub fn solve(constants: &Constants, composition: &Composition, guess: Option<Gue
         };
     }
     model.finish(ph, ionic, evaluated, iterations, outer, status)
+}
+
+/// Solves the charge balance for pH with the activity coefficients held at a given ionic strength.
+///
+/// The reported `ionic_strength` is that of the species found, which differs from the one given
+/// unless it was self-consistent; the buffer capacity is exactly the derivative of this balance.
+pub fn solve_at_ionic_strength(
+    constants: &Constants,
+    composition: &Composition,
+    ionic_strength: f64,
+    guess_ph: Option<f64>,
+) -> Solution {
+    let mut model = balance::ChargeBalance::new(constants, composition);
+    let ionic = ionic_strength.max(0.0);
+    model.set_ionic_strength(ionic);
+    let inner = newton::solve_bracketed(
+        |x| model.evaluate(x),
+        guess_ph.unwrap_or(7.0),
+        PH_MIN,
+        PH_MAX,
+    );
+    let status = status_of(inner.status);
+    model.finish(inner.x, ionic, inner.at_x, inner.iterations, 1, status)
+}
+
+/// How a solve ended, from how its inner Newton iteration ended.
+fn status_of(status: newton::Status) -> SolveStatus {
+    match status {
+        newton::Status::Converged => SolveStatus::Converged,
+        newton::Status::BelowBracket => SolveStatus::BelowRange,
+        newton::Status::AboveBracket => SolveStatus::AboveRange,
+        newton::Status::IterationLimit => SolveStatus::NotConverged,
+    }
 }
 
 /// Molality and fraction of every form of every system present, at a solved state.

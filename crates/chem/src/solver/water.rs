@@ -63,7 +63,7 @@ mod tests {
     #[test]
     fn pkw_at_atmospheric_pressure_matches_the_reference_table() {
         // pKw at 0.1 MPa from Python `thermo` (Kweq_IAPWS with IAPWS-95 density; 100 °C at
-        // saturation), shared/reference/check-values.md §2; tolerance 0.005 (spec).
+        // saturation, IAPWS R11-07 with IAPWS-95 density); tolerance 0.005 (common practice, no source).
         for (t, expected) in [
             (0.0, 14.946),
             (10.0, 14.534),
