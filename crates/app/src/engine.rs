@@ -341,17 +341,13 @@ impl Engine {
         let l = project.recipe.lines.get(line)?;
         let entry = self.library().ok()?.entry(&l.ingredient)?;
         let batch_g = self.solved().map(|r| r.batch.total_mass_g);
-        let grams = match entry.grams(l.amount) {
-            Some(g) => g,
-            None => l.amount.value / 100.0 * batch_g?,
-        };
-        let value = match unit {
-            Unit::Gram => grams,
-            Unit::Kilogram => grams * 1e-3,
-            Unit::Milligram => grams * 1e3,
-            Unit::Mole => grams * entry.ingredient.assay / entry.molar_mass_g_per_mol,
-            Unit::Percent => 100.0 * grams / batch_g.filter(|b| *b > 0.0)?,
-        };
+        let value = saltwise_chem::amount::convert(
+            l.amount,
+            unit,
+            entry.molar_mass_g_per_mol,
+            entry.ingredient.assay,
+            batch_g,
+        )?;
         value.is_finite().then_some(Amount { value, unit })
     }
 }

@@ -104,7 +104,7 @@ pub fn dose_curve_ui(
             ui.weak("Set a target pH in the readout to see the dose that reaches it.");
         }
     }
-    let x_label = format!("dose of {}, g", curve.adjuster_name);
+    let x_label = format!("Dose of {}, g", curve.adjuster_name);
     let link = egui::Id::unique("dose_axis_link");
     let target = settings.target_ph;
     let tolerance = settings.target_tolerance;
@@ -139,13 +139,13 @@ pub fn dose_curve_ui(
                 egui_plot::HoverPosition::NearDataPoint { position, .. }
                 | egui_plot::HoverPosition::Elsewhere { position } => position,
             };
-            Some(format!("dose {} g\npH {:.2}", sig(p.x, 4), p.y))
+            Some(format!("Dose {} g\npH {:.2}", sig(p.x, 4), p.y))
         })
         .show(ui, |plot| {
             if let Some(t) = target {
                 plot.span(
                     Span::new(
-                        format!("target band pH {t:.2} ± {tolerance:.2}"),
+                        format!("Target band, pH {t:.2} ± {tolerance:.2}"),
                         (t - tolerance)..=(t + tolerance),
                     )
                     .axis(egui_plot::Axis::Y)
@@ -160,7 +160,7 @@ pub fn dose_curve_ui(
             );
             if let Some(c) = current {
                 plot.points(
-                    Points::new("current recipe", vec![c])
+                    Points::new("Current recipe", vec![c])
                         .shape(MarkerShape::Diamond)
                         .radius(7.0)
                         .color(current_color),
@@ -168,7 +168,7 @@ pub fn dose_curve_ui(
             }
             if !eq.is_empty() {
                 plot.points(
-                    Points::new("equivalence point", eq)
+                    Points::new("Equivalence point", eq)
                         .shape(MarkerShape::Circle)
                         .radius(5.0)
                         .filled(false)
@@ -176,7 +176,7 @@ pub fn dose_curve_ui(
                 );
             }
             if let Some(d) = dose {
-                plot.vline(VLine::new("dose to target", d).color(super::TARGET));
+                plot.vline(VLine::new("Dose to target", d).color(super::TARGET));
             }
         });
     if !curve.equivalence.is_empty() {
@@ -200,11 +200,11 @@ pub fn dose_curve_ui(
                     egui_plot::HoverPosition::NearDataPoint { position, .. }
                     | egui_plot::HoverPosition::Elsewhere { position } => position,
                 };
-                Some(format!("dose {} g\nβ {}", sig(p.x, 4), sig(p.y, 3)))
+                Some(format!("Dose {} g\nβ {}", sig(p.x, 4), sig(p.y, 3)))
             })
             .show(ui, |plot| {
                 plot.line(
-                    Line::new("buffer capacity", curve.buffer_points.as_slice())
+                    Line::new("Buffer capacity", curve.buffer_points.as_slice())
                         .width(2.0)
                         .style(LineStyle::dashed_loose())
                         .color(super::BUFFER),

@@ -73,7 +73,11 @@ pub fn fonts() -> egui::FontDefinitions {
 /// A button whose visible text may be an icon but whose accessible name is `name`.
 pub fn named_button(ui: &mut Ui, text: &str, name: &str) -> Response {
     let enabled = ui.is_enabled();
-    let response = ui.button(text).on_hover_text(name);
+    let mut response = ui.button(text);
+    // An icon says nothing on its own: its tooltip gives the name. Words need no echo.
+    if !text.chars().any(char::is_alphabetic) {
+        response = response.on_hover_text(name);
+    }
     response.widget_info(|| WidgetInfo::labeled(Role::Button, enabled, name));
     response
 }
@@ -247,5 +251,21 @@ mod tests {
         assert_eq!(a.check("11").unwrap_err(), "11 refused: between 0 and 10");
         assert!(a.check("inf").unwrap_err().contains("not a finite number"));
         assert!(a.check("x").unwrap_err().starts_with("'x' is not a number"));
+    }
+}
+
+#[cfg(test)]
+mod palette_tests {
+    use super::{BUFFER, EQUIVALENCE, ERROR, PH_LINE, SPECIES, TARGET, WARN};
+
+    #[test]
+    fn no_colour_has_two_meanings() {
+        let mut all = vec![WARN, ERROR, TARGET, PH_LINE, BUFFER, EQUIVALENCE];
+        all.extend(SPECIES);
+        for (i, a) in all.iter().enumerate() {
+            for b in &all[i + 1..] {
+                assert_ne!(a, b, "a colour is used twice");
+            }
+        }
     }
 }

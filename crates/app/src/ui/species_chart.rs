@@ -81,7 +81,7 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
         .height(super::dose_curve::chart_height(ui))
         .x_grid_spacer(egui_plot::uniform_grid_spacer(|_| [1.0, 2.0, 4.0]))
         .x_axis_label("pH")
-        .y_axis_label("fraction")
+        .y_axis_label("Fraction")
         .include_x(0.0)
         .include_x(14.0)
         .include_y(0.0)
@@ -95,7 +95,7 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
                 egui_plot::HoverPosition::NearDataPoint { position, .. }
                 | egui_plot::HoverPosition::Elsewhere { position } => position,
             };
-            Some(format!("pH {:.2}\nfraction {:.3}", p.x, p.y))
+            Some(format!("pH {:.2}\nFraction {:.3}", p.x, p.y))
         })
         .show(ui, |plot| {
             for (j, (name, points)) in data.forms.iter().zip(&data.curves).enumerate() {
@@ -107,7 +107,7 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
                 );
             }
             plot.vline(
-                VLine::new(format!("current recipe, pH {ph:.2}"), ph)
+                VLine::new(format!("Current recipe, pH {ph:.2}"), ph)
                     .color(current)
                     .width(1.5),
             );

@@ -2,7 +2,7 @@
 
 use super::System;
 
-/// Names of the forms of a system: the library's, or generated from charges.
+/// Names of the forms of a system: the library's, or its display name with each form's charge.
 pub fn form_names(system: &System) -> Vec<String> {
     if system.forms.len() == system.pka.len() + 1 {
         return system.forms.clone();
@@ -10,7 +10,7 @@ pub fn form_names(system: &System) -> Vec<String> {
     (0..=system.pka.len())
         .map(|j| {
             let z = i64::from(system.charge_of_fully_protonated) - j as i64;
-            format!("{} form {j} ({})", system.id, charge_label(z))
+            format!("{} form {j} ({})", system.name, charge_label(z))
         })
         .collect()
 }
@@ -46,10 +46,10 @@ mod tests {
         assert_eq!(
             form_names(&s),
             [
-                "phosphoric form 0 (0)",
-                "phosphoric form 1 (−1)",
-                "phosphoric form 2 (−2)",
-                "phosphoric form 3 (−3)"
+                "phosphoric acid form 0 (0)",
+                "phosphoric acid form 1 (−1)",
+                "phosphoric acid form 2 (−2)",
+                "phosphoric acid form 3 (−3)"
             ]
         );
         assert_eq!(charge_label(1), "+1");

@@ -1,0 +1,34 @@
+//! The charts say what their marks mean: a legend entry for every curve, the target band and the
+//! current recipe, on both charts.
+
+mod common;
+
+use common::{Folders, harness_in};
+use egui_kittest::kittest::Queryable as _;
+use saltwise_chem::project::Project;
+
+#[test]
+fn the_dose_curve_legend_names_the_target_band_and_every_mark() {
+    let dir = tempfile::tempdir().unwrap();
+    // The demo has a target of pH 5.0 ± 0.1 and an equivalence point on its curve.
+    let h = harness_in(Project::demo(), &Folders::under(dir.path()));
+    for entry in [
+        "Target band, pH 5.00 ± 0.10",
+        "Current recipe",
+        "Equivalence point",
+        "Dose to target",
+    ] {
+        h.get_by_label(entry);
+    }
+}
+
+#[test]
+fn the_species_chart_has_a_legend_of_its_forms_and_the_current_ph() {
+    let dir = tempfile::tempdir().unwrap();
+    let h = harness_in(Project::demo(), &Folders::under(dir.path()));
+    // The lactic acid system is the first in the demo recipe; its two forms are in the legend
+    // (and in the table below the chart).
+    assert!(h.query_all_by_label("lactic acid").count() >= 2);
+    assert!(h.query_all_by_label("lactate").count() >= 2);
+    h.get_by_label_contains("Current recipe, pH");
+}
