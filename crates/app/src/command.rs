@@ -7,7 +7,7 @@
 use std::path::{Path, PathBuf};
 
 use saltwise_chem::library::{Ingredient, System};
-use saltwise_chem::project::{Project, write_atomic_with};
+use saltwise_chem::project::Project;
 use saltwise_chem::{RecipeLine, Unit};
 
 use crate::app::Workbench;
@@ -466,34 +466,14 @@ impl Workbench {
         }
     }
 
-    /// Writes the project atomically, the previous file kept as a backup; any injected fault
-    /// runs between writing the temporary file and renaming it.
+    /// Writes the project through the core's one save path (atomic, previous file kept as a
+    /// backup); any injected fault runs between writing the temporary file and renaming it.
     fn write_project(&self, path: &Path) -> Result<(), String> {
-        if path.is_dir() {
-            return Err(format!(
-                "{} is a folder, not a file: choose a file name inside it",
-                path.display()
-            ));
-        }
-        let text = self
-            .doc
-            .project()
-            .to_ron()
-            .map_err(|e| format!("the project could not be written as text: {e}"))?;
         let fault = self.save_fault();
-        write_atomic_with(path, text.as_bytes(), true, |tmp| {
-            fault.map_or(Ok(()), |f| f(tmp))
-        })
-        .map_err(|e| match path.parent() {
-            Some(dir) if !dir.as_os_str().is_empty() && !dir.is_dir() => {
-                format!(
-                    "{}: the folder {} does not exist ({e})",
-                    path.display(),
-                    dir.display()
-                )
-            }
-            _ => format!("{}: {e}", path.display()),
-        })
+        self.doc
+            .project()
+            .save_with(path, |tmp| fault.map_or(Ok(()), |f| f(tmp)))
+            .map_err(|e| e.to_string())
     }
 
     fn set_zoom(&mut self, ctx: &egui::Context, zoom: f32) {

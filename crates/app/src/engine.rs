@@ -9,7 +9,6 @@ use egui_plot::PlotPoint;
 use saltwise_chem::library::{LibraryData, form_names};
 use saltwise_chem::project::{Project, Settings};
 use saltwise_chem::report::{self, Report};
-use saltwise_chem::reserve;
 use saltwise_chem::solver::{self, Conditions, Constants};
 use saltwise_chem::{Amount, Library, Recipe, Unit};
 
@@ -375,31 +374,21 @@ fn effects(
         .collect()
 }
 
+/// The whole caution list, assembled by the core as for every front end.
 fn cautions(
     library: &Library,
     constants: &Constants,
     report: &Report,
-    _adjuster: &str,
+    adjuster: &str,
 ) -> Vec<Caution> {
-    let mut list = hazard::cautions(library, &report.batch, Some(&report.solution));
-    // Below pH 4 or above pH 10, the reserve says how strongly the product resists
-    // neutralising; it goes before the closing safety-data line.
-    let reserve = reserve::reserve(library, constants, &report.batch, report.solution.ph)
-        .ok()
-        .flatten();
-    if let Some(r) = reserve {
-        if list.is_empty() {
-            list.push(reserve::caution(&r));
-            list.push(Caution {
-                title: "Safety data".into(),
-                text: hazard::DEFER.into(),
-            });
-        } else {
-            let at = list.len() - 1;
-            list.insert(at, reserve::caution(&r));
-        }
-    }
-    list
+    hazard::assemble(
+        library,
+        constants,
+        &report.batch,
+        Some(&report.solution),
+        Some(adjuster),
+    )
+    .items
 }
 
 fn curve_data(

@@ -24,7 +24,9 @@ fn a_negative_amount_is_refused_beside_the_field_and_the_amount_kept() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness_in(citric_project(), &Folders::under(dir.path()));
     type_into(&mut h, "Amount of line 2", "-5");
-    h.get_by_label("-5 refused: an amount is a number from 0 to 10 000 000");
+    h.get_by_label(
+        "amount -5 is not allowed: it is negative; amounts are finite numbers from 0 to 10 000 000 in their unit",
+    );
     assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
     assert!(!h.state().is_dirty(), "nothing changed");
 
@@ -32,7 +34,8 @@ fn a_negative_amount_is_refused_beside_the_field_and_the_amount_kept() {
     type_into(&mut h, "Amount of line 2", "12");
     assert_eq!(h.state().project().recipe.lines[1].amount.value, 12.0);
     assert!(
-        h.query_by_label_contains("refused: an amount").is_none(),
+        h.query_by_label_contains("amount -5 is not allowed")
+            .is_none(),
         "the reason goes once a good value is typed"
     );
 }
@@ -42,10 +45,12 @@ fn an_amount_that_is_not_a_number_is_refused_beside_the_field() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness_in(citric_project(), &Folders::under(dir.path()));
     type_into(&mut h, "Amount of line 2", "ten");
-    h.get_by_label("'ten' is not a number: an amount is a number from 0 to 10 000 000");
+    h.get_by_label(
+        "amount: 'ten' is not a number; amounts are finite numbers from 0 to 10 000 000 in their unit",
+    );
     assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
     type_into(&mut h, "Amount of line 2", "inf");
-    h.get_by_label_contains("'inf' is not a finite number");
+    h.get_by_label_contains("amount inf is not allowed: it is not a finite number");
     assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
     // A decimal comma is read as people mean it.
     type_into(&mut h, "Amount of line 2", "12,5");
@@ -57,7 +62,9 @@ fn a_batch_size_of_zero_is_refused_beside_the_field() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness_in(Project::demo(), &Folders::under(dir.path()));
     type_into(&mut h, "Batch size", "0");
-    h.get_by_label("0 refused: a batch is above 0 g and at most 100 000 000 g");
+    h.get_by_label(
+        "q.s. batch size 0 g is not allowed: it is too low; a q.s. batch size is above 0 g and at most 100 000 000 g",
+    );
     assert_eq!(h.state().project().recipe.qs_to_g, Some(1000.0));
 }
 
@@ -66,7 +73,9 @@ fn a_temperature_outside_the_model_is_refused_beside_the_field() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness_in(citric_project(), &Folders::under(dir.path()));
     type_into(&mut h, "Temperature", "120");
-    h.get_by_label("120 refused: the temperature model covers 0–95 °C");
+    h.get_by_label(
+        "temperature 120 °C is not allowed: it is too high; temperatures are 0–95 °C, the range of the temperature model",
+    );
     assert_eq!(h.state().project().settings.temp_c, 25.0);
     type_into(&mut h, "Temperature", "40");
     assert_eq!(h.state().project().settings.temp_c, 40.0);
@@ -77,7 +86,7 @@ fn a_target_ph_outside_minus_one_to_fifteen_is_refused_beside_the_field() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness_in(Project::demo(), &Folders::under(dir.path()));
     type_into(&mut h, "Target pH value", "16");
-    h.get_by_label("16 refused: a target pH is between −1 and 15");
+    h.get_by_label("target pH 16 is not allowed: it is too high; a target pH is from −1 to 15");
     assert_eq!(h.state().project().settings.target_ph, Some(5.0));
 }
 
@@ -86,7 +95,9 @@ fn a_largest_dose_of_zero_is_refused_beside_the_field() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness_in(Project::demo(), &Folders::under(dir.path()));
     type_into(&mut h, "Largest dose", "0");
-    h.get_by_label("0 refused: the largest dose is above 0 g and at most 1 000 000 g");
+    h.get_by_label(
+        "largest dose 0 g is not allowed: it is too low; the largest dose is above 0 g and at most 1 000 000 g",
+    );
     assert_eq!(h.state().project().settings.dose_max_g, 20.0);
 }
 
@@ -139,7 +150,7 @@ fn a_custom_ingredient_with_good_fields_shows_no_reasons_and_is_added() {
     type_into(&mut h, "pKa values", "3.0, 4.4");
     type_into(&mut h, "Assay %", "98,5");
     type_into(&mut h, "Source", "supplier sheet FA-2 (invented)");
-    assert!(h.query_by_label_contains("refused").is_none());
+    assert!(h.query_by_label_contains("is not allowed").is_none());
     assert!(h.query_by_label_contains("is not").is_none());
     h.get_by_label("Add to the project").click();
     h.run();

@@ -109,7 +109,7 @@ fn cases() -> Vec<(&'static str, Vec<u8>, String)> {
         (
             "hot-batch",
             with("temp_c: 25.0", "temp_c: 120.0"),
-            "temperature 120 °C is outside 0–95 °C".into(),
+            "temperature 120 °C is not allowed".into(),
         ),
         (
             "zero-batch",

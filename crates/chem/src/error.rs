@@ -14,6 +14,51 @@ pub struct FormulaError {
     pub message: String,
 }
 
+/// A number outside the limits of [`crate::limits`], or text that is not a number.
+#[derive(Debug, Clone, PartialEq, Eq, Error)]
+pub enum LimitError {
+    /// A number outside its range.
+    #[error("{what} {value}{} is not allowed: {problem}; {rule}", with_unit(.unit))]
+    NotAllowed {
+        /// What the number is, e.g. `temperature` or `amount of citric_acid`.
+        what: String,
+        /// The value as read.
+        value: String,
+        /// Its unit, or empty.
+        unit: &'static str,
+        /// What is wrong with it, e.g. `it is negative`.
+        problem: &'static str,
+        /// What is allowed.
+        rule: &'static str,
+    },
+    /// Text that is not a number.
+    #[error("{what}: '{text}' is not a number; {rule}")]
+    NotANumber {
+        /// What the number is.
+        what: String,
+        /// The text as typed.
+        text: String,
+        /// What is allowed.
+        rule: &'static str,
+    },
+    /// Nothing typed.
+    #[error("{what}: type a number; {rule}")]
+    Empty {
+        /// What the number is.
+        what: String,
+        /// What is allowed.
+        rule: &'static str,
+    },
+}
+
+fn with_unit(unit: &str) -> String {
+    if unit.is_empty() {
+        String::new()
+    } else {
+        format!(" {unit}")
+    }
+}
+
 /// A problem in the ingredient library or in a custom ingredient.
 #[derive(Debug, Clone, PartialEq, Error)]
 pub enum LibraryError {
@@ -52,16 +97,6 @@ pub enum RecipeError {
         /// The nearest known ids.
         suggestions: Vec<String>,
     },
-    /// An amount that is negative, not a number or infinite.
-    #[error("amount of {id}: {value} is {problem}; amounts are finite numbers, 0 or more")]
-    BadAmount {
-        /// The ingredient id.
-        id: String,
-        /// The value as given.
-        value: f64,
-        /// "negative" or "not a finite number".
-        problem: &'static str,
-    },
     /// An amount given in a unit this ingredient cannot take.
     #[error("amount of {id}: {message}")]
     BadUnit {
@@ -91,6 +126,9 @@ pub enum RecipeError {
         /// The temperature as given, °C.
         temp_c: f64,
     },
+    /// A number outside the input limits (amounts, batch size, temperature).
+    #[error(transparent)]
+    Limit(#[from] LimitError),
 }
 
 fn suggest(ids: &[String]) -> String {
@@ -179,6 +217,22 @@ pub enum ProjectError {
         found: u32,
         /// The newest version supported.
         supported: u32,
+    },
+    /// The path to save to is a folder.
+    #[error("{path} is a folder, not a file: choose a file name inside it")]
+    IsAFolder {
+        /// The path given.
+        path: String,
+    },
+    /// The folder to save into does not exist.
+    #[error("{path}: the folder {folder} does not exist ({source})")]
+    NoFolder {
+        /// The file.
+        path: String,
+        /// Its folder.
+        folder: String,
+        /// The operating system's reason.
+        source: std::io::Error,
     },
     /// The content is well formed but not valid.
     #[error("{path}: {message}")]

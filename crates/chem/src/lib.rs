@@ -15,14 +15,16 @@ pub mod explain;
 pub mod formula;
 pub mod hazard;
 pub mod library;
+pub mod limits;
 pub mod project;
 pub mod recipe;
 pub mod report;
 pub mod reserve;
 pub mod solver;
+pub mod text;
 
 pub use amount::{Amount, Unit};
-pub use error::{DoseError, FormulaError, LibraryError, ProjectError, RecipeError};
+pub use error::{DoseError, FormulaError, LibraryError, LimitError, ProjectError, RecipeError};
 pub use library::{Hazard, Ingredient, Library};
 pub use recipe::{Batch, Recipe, RecipeLine};
 pub use report::{Report, evaluate};

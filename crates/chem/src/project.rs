@@ -9,9 +9,11 @@ use std::path::{Path, PathBuf};
 
 use serde::{Deserialize, Serialize};
 
+use crate::amount::Unit;
 use crate::error::ProjectError;
 use crate::library::{Library, LibraryData};
-use crate::recipe::{Recipe, RecipeLine, Unit};
+use crate::limits;
+use crate::recipe::{Recipe, RecipeLine};
 use crate::solver::ActivityModel;
 
 /// The format version this build writes.
@@ -94,7 +96,7 @@ impl Project {
     pub fn demo() -> Self {
         let line = |id: &str, value: f64, unit: Unit| RecipeLine {
             ingredient: id.into(),
-            amount: crate::recipe::Amount { value, unit },
+            amount: crate::amount::Amount { value, unit },
             enabled: true,
         };
         Self {
@@ -146,47 +148,28 @@ impl Project {
         Ok(project)
     }
 
-    /// Checks amounts and settings for values no recipe can have.
+    /// Checks amounts and settings against the input limits ([`crate::limits`]).
     pub fn validate(&self, origin: &str) -> Result<(), ProjectError> {
-        let bad = |message: String| ProjectError::Invalid {
+        let bad = |e: crate::error::LimitError| ProjectError::Invalid {
             path: origin.to_owned(),
-            message,
+            message: e.to_string(),
         };
         for (i, line) in self.recipe.lines.iter().enumerate() {
-            let v = line.amount.value;
-            if !v.is_finite() || v < 0.0 {
-                return Err(bad(format!(
-                    "recipe line {} ({}): amount {v} is not allowed; amounts are finite numbers, 0 or more",
-                    i + 1,
-                    line.ingredient
-                )));
-            }
+            let what = format!("recipe line {} ({}): amount", i + 1, line.ingredient);
+            limits::AMOUNT
+                .check_as(line.amount.value, &what)
+                .map_err(bad)?;
         }
-        if let Some(qs) = self.recipe.qs_to_g
-            && (!qs.is_finite() || qs <= 0.0)
-        {
-            return Err(bad(format!(
-                "q.s. batch size {qs} g is not allowed; it must be above 0"
-            )));
+        if let Some(qs) = self.recipe.qs_to_g {
+            limits::BATCH_G.check(qs).map_err(bad)?;
         }
         let s = &self.settings;
-        if !s.temp_c.is_finite() || !(0.0..=95.0).contains(&s.temp_c) {
-            return Err(bad(format!(
-                "temperature {} °C is outside 0–95 °C",
-                s.temp_c
-            )));
+        limits::TEMPERATURE_C.check(s.temp_c).map_err(bad)?;
+        limits::DOSE_MAX_G.check(s.dose_max_g).map_err(bad)?;
+        if let Some(t) = s.target_ph {
+            limits::TARGET_PH.check(t).map_err(bad)?;
         }
-        if !s.dose_max_g.is_finite() || s.dose_max_g <= 0.0 {
-            return Err(bad(format!(
-                "largest dose {} g must be above 0",
-                s.dose_max_g
-            )));
-        }
-        if s.target_ph
-            .is_some_and(|t| !t.is_finite() || !(-1.0..=15.0).contains(&t))
-        {
-            return Err(bad("target pH must be between −1 and 15".into()));
-        }
+        limits::BAND.check(s.target_tolerance).map_err(bad)?;
         Ok(())
     }
 
@@ -255,15 +238,38 @@ impl Project {
     }
 
     /// Writes the project atomically: a temporary file in the same folder, synced, then renamed;
-    /// the previous file is kept beside it as `NAME.bak`.
+    /// the previous file is kept beside it as `NAME.bak`. The one save path of every front end.
     pub fn save(&self, path: &Path) -> Result<(), ProjectError> {
+        self.save_with(path, |_| Ok(()))
+    }
+
+    /// As [`Project::save`], with a hook run between writing the temporary file and renaming
+    /// it (tests inject failures there). Says when the path is a folder or its folder is gone.
+    pub fn save_with(
+        &self,
+        path: &Path,
+        before_rename: impl FnOnce(&Path) -> std::io::Result<()>,
+    ) -> Result<(), ProjectError> {
         let name = path.display().to_string();
+        if path.is_dir() {
+            return Err(ProjectError::IsAFolder { path: name });
+        }
         let text = self.to_ron().map_err(|e| ProjectError::Invalid {
             path: name.clone(),
-            message: e.to_string(),
+            message: format!("the project could not be written as text: {e}"),
         })?;
-        write_atomic(path, text.as_bytes(), true)
-            .map_err(|source| ProjectError::Io { path: name, source })
+        write_atomic_with(path, text.as_bytes(), true, before_rename).map_err(|source| {
+            match path.parent() {
+                Some(dir) if !dir.as_os_str().is_empty() && !dir.is_dir() => {
+                    ProjectError::NoFolder {
+                        path: name,
+                        folder: dir.display().to_string(),
+                        source,
+                    }
+                }
+                _ => ProjectError::Io { path: name, source },
+            }
+        })
     }
 }
 

@@ -24,7 +24,7 @@ pub struct Report {
 
 /// Checks that a temperature is inside the model's range.
 pub fn check_temperature(temp_c: f64) -> Result<(), RecipeError> {
-    if temp_c.is_finite() && (solver::TEMP_MIN_C..=solver::TEMP_MAX_C).contains(&temp_c) {
+    if crate::limits::TEMPERATURE_C.allows(temp_c) {
         Ok(())
     } else {
         Err(RecipeError::Temperature { temp_c })
@@ -70,7 +70,7 @@ pub fn warnings(constants: &Constants, solution: &Solution) -> Vec<String> {
     let limit = model.max_ionic_strength();
     if solution.ionic_strength > limit {
         w.push(format!(
-            "ionic strength {:.3} mol/kg is above {limit} mol/kg, the usual limit of the {} activity model: treat the pH as indicative",
+            "ionic strength {:.3} mol/kg water is above {limit} mol/kg water, the usual limit of the {} activity model: treat the pH as indicative",
             solution.ionic_strength,
             model.label()
         ));

@@ -63,7 +63,7 @@ pub fn reserve(
             ph,
             g_naoh_per_100g: r,
             indicator,
-            flagged: indicator <= -0.5,
+            flagged: indicator <= threshold(Side::Acid),
         }))
     } else if ph > ALKALINE_END_PH {
         let acid = "hydrochloric_acid_36";
@@ -81,29 +81,43 @@ pub fn reserve(
             ph,
             g_naoh_per_100g: r,
             indicator,
-            flagged: indicator >= 14.5,
+            flagged: indicator >= threshold(Side::Alkaline),
         }))
     } else {
         Ok(None)
     }
 }
 
+/// The indicator's threshold: −0.5 for the acid side, 14.5 for the alkaline side.
+pub fn threshold(side: Side) -> f64 {
+    match side {
+        Side::Acid => -0.5,
+        Side::Alkaline => 14.5,
+    }
+}
+
 /// The caution that goes with a reserve, in plain words.
 pub fn caution_text(r: &Reserve) -> String {
-    let end = match r.side {
-        Side::Acid => ACID_END_PH,
-        Side::Alkaline => ALKALINE_END_PH,
+    let how = match r.side {
+        Side::Acid => format!(
+            "sodium hydroxide into an acid product, to pH {ACID_END_PH}: {:.2} g NaOH per 100 g",
+            r.g_naoh_per_100g
+        ),
+        Side::Alkaline => format!(
+            "acid into an alkaline product, to pH {ALKALINE_END_PH}: {:.2} g NaOH-equivalent per 100 g",
+            r.g_naoh_per_100g
+        ),
     };
     format!(
-        "{:.2} g NaOH-equivalent per 100 g brings the product to pH {end}; screening value {:.2} ({}). \
-         This is a screening indicator (Young et al. 1988), not a classification: classification \
-         follows the applicable regulations and test data.",
-        r.g_naoh_per_100g,
+        "Titrated with {how}; screening value {:.1}; threshold {} ({}). This is a screening \
+         indicator (Young et al. 1988), not a classification: classification follows the \
+         applicable regulations and test data.",
         r.indicator,
+        threshold(r.side),
         if r.flagged {
             "at or past the threshold that points to corrosive"
         } else {
-            "below the threshold that points to corrosive"
+            "short of the threshold that points to corrosive"
         }
     )
 }

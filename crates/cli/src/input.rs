@@ -1,8 +1,9 @@
 //! Turns arguments into a library, a recipe and conditions: the one place inputs are checked.
 
 use anyhow::{Context, Result, anyhow, bail};
+use saltwise_chem::amount::Unit;
+use saltwise_chem::limits;
 use saltwise_chem::project::Project;
-use saltwise_chem::recipe::Unit;
 use saltwise_chem::{ActivityModel, Amount, Conditions, Library, Recipe, RecipeLine};
 
 use crate::args::{Activity, RecipeArgs};
@@ -12,6 +13,8 @@ pub struct Resolved {
     pub library: Library,
     pub recipe: Recipe,
     pub conditions: Conditions,
+    /// The project's chosen pH adjuster, when read from a project file.
+    pub adjuster: Option<String>,
 }
 
 /// Builds the library, recipe and conditions from the arguments (and project file, if any).
@@ -19,11 +22,13 @@ pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
     let mut library = Library::built_in().context("the built-in library")?;
     let mut conditions = Conditions::default();
     let mut recipe = Recipe::default();
+    let mut adjuster = None;
     if let Some(path) = &args.project {
-        let project = Project::load(path)?;
-        library
-            .extend(project.custom.clone())
-            .with_context(|| format!("custom ingredients in {}", path.display()))?;
+        // The same checked loader as the window: limits, custom ingredients, unknown ids with
+        // their line and column.
+        let (project, with_custom) = Project::load_with_library(path, &library)?;
+        library = with_custom;
+        adjuster = Some(project.settings.adjuster.clone());
         conditions = Conditions {
             temp_c: project.settings.temp_c,
             activity: project.settings.activity,
@@ -39,7 +44,8 @@ pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
         });
     }
     if let Some(qs) = &args.qs_to {
-        recipe.qs_to_g = Some(mass_g(qs).with_context(|| "--qs-to")?);
+        let g = mass_g(qs).with_context(|| "--qs-to")?;
+        recipe.qs_to_g = Some(limits::BATCH_G.check(g).with_context(|| "--qs-to")?);
     }
     if recipe.lines.is_empty() && recipe.qs_to_g.is_none() {
         bail!(
@@ -60,6 +66,7 @@ pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
         library,
         recipe,
         conditions,
+        adjuster,
     })
 }
 
@@ -76,7 +83,9 @@ pub fn parse_item(item: &str) -> Result<(String, Amount)> {
 /// A mass such as `1000g` or `1.2kg`, in grams.
 pub fn mass_g(text: &str) -> Result<f64> {
     let a = Amount::parse(text).map_err(|e| anyhow!(e))?;
-    check_amount("mass", a.value)?;
+    if !a.value.is_finite() || a.value < 0.0 {
+        check_amount("q.s. batch size", a.value)?;
+    }
     Ok(match a.unit {
         Unit::Gram => a.value,
         Unit::Kilogram => a.value * 1e3,
@@ -86,13 +95,13 @@ pub fn mass_g(text: &str) -> Result<f64> {
 }
 
 fn check_amount(id: &str, v: f64) -> Result<()> {
-    if !v.is_finite() {
-        bail!("amount of {id}: {v} is not a finite number; amounts are finite numbers, 0 or more");
-    }
-    if v < 0.0 {
-        bail!("amount of {id}: {v} is negative; amounts are 0 or more");
-    }
+    limits::AMOUNT.check_as(v, &format!("amount of {id}"))?;
     Ok(())
+}
+
+/// A target pH, checked against the limits table.
+pub fn target_ph(value: f64) -> Result<f64> {
+    limits::TARGET_PH.check(value).context("--target-ph")
 }
 
 /// Parses `id=FROM..TO` with units into (id, from_g, to_g).
@@ -137,5 +146,8 @@ pub fn parse_dose_range(text: &str, library: &Library) -> Result<(String, f64, f
     if to_g <= from_g {
         bail!("--dose range {from}..{to} is empty: the end must be above the start");
     }
+    limits::DOSE_MAX_G
+        .check_as(to_g, "--dose end")
+        .context("--dose")?;
     Ok((id.to_owned(), from_g, to_g))
 }

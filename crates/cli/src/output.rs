@@ -6,9 +6,11 @@ use std::process::ExitCode;
 use anyhow::{Context, Result};
 use saltwise_chem::curve::Doser;
 use saltwise_chem::explain::explain;
-use saltwise_chem::hazard::cautions;
+use saltwise_chem::hazard::{self, Cautions};
 use saltwise_chem::library::{Release, form_names};
 use saltwise_chem::report::{Report, evaluate_with};
+use saltwise_chem::reserve::{self, Reserve};
+use saltwise_chem::text::{Notation, ascii};
 use saltwise_chem::{Constants, Library};
 use serde_json::{Value, json};
 
@@ -31,7 +33,7 @@ fn species_json(library: &Library, report: &Report) -> Vec<Value> {
             out.push(json!({
                 "system": s.id,
                 "form": j,
-                "name": names[j],
+                "name": ascii(&names[j]),
                 "charge": st.charges[j],
                 "molality": st.total * f,
                 "fraction": f,
@@ -48,17 +50,49 @@ fn print_stdout(text: &str) -> Result<()> {
     Ok(())
 }
 
+/// Cautions as JSON: each `title` and `text`, ASCII, the deferral last.
+fn cautions_json(c: &Cautions) -> Vec<Value> {
+    c.iter()
+        .map(|c| json!({"title": ascii(&c.title), "text": ascii(&c.text)}))
+        .collect()
+}
+
+/// The reserve as JSON (the documented `reserve` object).
+fn reserve_json(r: &Reserve) -> Value {
+    json!({
+        "side": format!("{:?}", r.side).to_lowercase(),
+        "g_naoh_per_100g": r.g_naoh_per_100g,
+        "indicator": r.indicator,
+        "flagged": r.flagged,
+        "caution": ascii(&reserve::caution_text(r)),
+    })
+}
+
+/// Cautions as text: a heading and one line each, the deferral last.
+fn cautions_text(c: &Cautions) -> String {
+    let mut t = String::new();
+    if !c.is_empty() {
+        t += "\ncautions\n";
+        for c in c.iter() {
+            t += &format!("  {}: {}\n", c.title, c.text);
+        }
+    }
+    t
+}
+
 /// `saltwise-cli ph`.
 pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
     let (r, constants, report) = solve(args)?;
     let lib = &r.library;
     let s = &report.solution;
     let effects = explain(lib, &constants, &report.batch);
-    let warn = cautions(lib, &report.batch, Some(s));
-    // The reserve is a screening extra: a product it cannot be computed for simply has none.
-    let reserve = saltwise_chem::reserve::reserve(lib, &constants, &report.batch, s.ph)
-        .ok()
-        .flatten();
+    let warn = hazard::assemble(
+        lib,
+        &constants,
+        &report.batch,
+        Some(s),
+        r.adjuster.as_deref(),
+    );
     if args.json {
         let v = json!({
             "ph": s.ph,
@@ -76,26 +110,20 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
                 "mass_g": l.mass_g,
                 "molality": report.batch.line_molality(i),
                 "effect": e.effect.words(),
-                "reason": e.summary,
+                "reason": e.summary_in(Notation::Ascii),
             })).collect::<Vec<_>>(),
-            "warnings": report.warnings,
-            "reserve": reserve.map(|r| json!({
-                "side": format!("{:?}", r.side).to_lowercase(),
-                "g_naoh_per_100g": r.g_naoh_per_100g,
-                "indicator": r.indicator,
-                "flagged": r.flagged,
-                "caution": saltwise_chem::reserve::caution_text(&r),
-            })),
-            "cautions": warn.iter().map(|c| json!({"title": c.title, "text": c.text})).collect::<Vec<_>>(),
+            "warnings": report.warnings.iter().map(|w| ascii(w)).collect::<Vec<_>>(),
+            "reserve": warn.reserve.as_ref().map(reserve_json),
+            "cautions": cautions_json(&warn),
         });
         print_stdout(&format!("{}\n", serde_json::to_string_pretty(&v)?))?;
         return Ok(ExitCode::SUCCESS);
     }
     let mut t = String::new();
-    t += &format!("pH {:.3}   (as a meter reads it, −log a(H+))\n", s.ph);
-    t += &format!("p[H] {:.3}   (−log of the H+ molality)\n", s.p_h_conc);
+    t += &format!("pH {:.3}   (as a meter reads it, −log a(H⁺))\n", s.ph);
+    t += &format!("p[H] {:.3}   (−log of the H⁺ molality)\n", s.p_h_conc);
     t += &format!(
-        "ionic strength {:.4} mol/kg   buffer capacity {:.4} mol/kg per pH\n",
+        "ionic strength {:.4} mol/kg water   buffer capacity {:.4} mol/kg water per pH\n",
         s.ionic_strength, s.buffer_capacity
     );
     t += &format!(
@@ -108,7 +136,7 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
     t += "\ningredients\n";
     for (i, (l, e)) in report.batch.lines.iter().zip(&effects).enumerate() {
         t += &format!(
-            "  {:<34} {:>10.4} g {:>10.5} mol/kg  {}: {}\n",
+            "  {:<34} {:>10.4} g {:>10.5} mol/kg water  {}: {}\n",
             e.ingredient,
             l.mass_g,
             report.batch.line_molality(i),
@@ -128,7 +156,7 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
         let names = form_names(sys);
         for (j, f) in st.fractions.iter().enumerate() {
             t += &format!(
-                "  {:<14} {:<30} {:>+3}  {:>12.4e} mol/kg  {:>7.4}\n",
+                "  {:<14} {:<30} {:>+3}  {:>12.4e} mol/kg water  {:>7.4}\n",
                 sys.id,
                 names[j],
                 st.charges[j],
@@ -140,16 +168,7 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
     for w in &report.warnings {
         t += &format!("\nwarning: {w}\n");
     }
-    if let Some(r) = &reserve {
-        let c = saltwise_chem::reserve::caution(r);
-        t += &format!("\n{}: {}\n", c.title, c.text);
-    }
-    if !warn.is_empty() {
-        t += "\ncautions\n";
-        for c in &warn {
-            t += &format!("  {}: {}\n", c.title, c.text);
-        }
-    }
+    t += &cautions_text(&warn);
     print_stdout(&t)?;
     Ok(ExitCode::SUCCESS)
 }
@@ -163,6 +182,13 @@ pub fn curve(args: &CurveArgs) -> Result<ExitCode> {
     }
     let doser = Doser::new(&r.library, &constants, &report.batch, &id)?;
     let c = doser.curve_between(from_g, to_g, args.points);
+    let warn = hazard::assemble(
+        &r.library,
+        &constants,
+        &report.batch,
+        Some(&report.solution),
+        Some(&id),
+    );
     if args.csv {
         let mut w = csv::Writer::from_writer(Vec::new());
         w.write_record(["dose_g", "ph", "buffer_capacity"])?;
@@ -180,6 +206,7 @@ pub fn curve(args: &CurveArgs) -> Result<ExitCode> {
             "adjuster": id,
             "points": c.points.iter().map(|p| json!({"dose_g": p.dose_g, "ph": p.ph, "buffer_capacity": p.buffer_capacity})).collect::<Vec<_>>(),
             "equivalence_points": c.equivalence.iter().map(|e| json!({"dose_g": e.dose_g, "ph": e.ph})).collect::<Vec<_>>(),
+            "cautions": cautions_json(&warn),
         });
         print_stdout(&format!("{}\n", serde_json::to_string_pretty(&v)?))?;
     } else {
@@ -193,6 +220,7 @@ pub fn curve(args: &CurveArgs) -> Result<ExitCode> {
         for e in &c.equivalence {
             t += &format!("equivalence point near {:.4} g, pH {:.2}\n", e.dose_g, e.ph);
         }
+        t += &cautions_text(&warn);
         print_stdout(&t)?;
     }
     Ok(ExitCode::SUCCESS)
@@ -201,8 +229,16 @@ pub fn curve(args: &CurveArgs) -> Result<ExitCode> {
 /// `saltwise-cli dose`.
 pub fn dose(args: &DoseArgs) -> Result<ExitCode> {
     let (r, constants, report) = solve(&args.recipe)?;
+    let target = input::target_ph(args.target_ph)?;
     let doser = Doser::new(&r.library, &constants, &report.batch, &args.adjuster)?;
-    let d = doser.to_target(args.target_ph)?;
+    let d = doser.to_target(target)?;
+    let warn = hazard::assemble(
+        &r.library,
+        &constants,
+        &report.batch,
+        Some(&report.solution),
+        Some(&args.adjuster),
+    );
     if args.recipe.json {
         let v = json!({
             "adjuster": args.adjuster,
@@ -211,10 +247,11 @@ pub fn dose(args: &DoseArgs) -> Result<ExitCode> {
             "amount_g": d.amount_g,
             "percent_of_batch": d.percent_of_batch,
             "ph_reached": d.ph_reached,
+            "cautions": cautions_json(&warn),
         });
         print_stdout(&format!("{}\n", serde_json::to_string_pretty(&v)?))?;
     } else {
-        print_stdout(&format!(
+        let mut t = format!(
             "add {:.4} g of {} ({:.4} % of the {:.2} g batch): pH {:.3} → {:.3}\n",
             d.amount_g,
             args.adjuster,
@@ -222,7 +259,9 @@ pub fn dose(args: &DoseArgs) -> Result<ExitCode> {
             report.batch.total_mass_g,
             report.solution.ph,
             d.ph_reached
-        ))?;
+        );
+        t += &cautions_text(&warn);
+        print_stdout(&t)?;
     }
     Ok(ExitCode::SUCCESS)
 }

@@ -228,3 +228,176 @@ fn bad_input_gets_a_specific_message() {
     let err = fails(&["ph", "--project", path.to_str().unwrap()]);
     assert!(err.contains("line 3, column"), "{err}");
 }
+
+/// The `cautions` array of a JSON answer, as (title, text) pairs.
+fn cautions(v: &Value) -> Vec<(String, String)> {
+    v["cautions"]
+        .as_array()
+        .expect("cautions is an array")
+        .iter()
+        .map(|c| {
+            (
+                c["title"].as_str().unwrap_or_default().to_owned(),
+                c["text"].as_str().unwrap_or_default().to_owned(),
+            )
+        })
+        .collect()
+}
+
+#[test]
+fn a_reserve_always_comes_with_cautions_and_the_deferral_last() {
+    // 20 g gluconic acid 50 % per kg water is near pH 2.6 (0.051 mol/kg, pKa 3.86; by hand):
+    // an acid reserve, and no ingredient carries a hazard tag.
+    let v = json(&["ph", "water=1000g", "gluconic_acid_50=20g", "--json"]);
+    assert_eq!(v["reserve"]["side"], "acid");
+    let c = cautions(&v);
+    assert!(!c.is_empty(), "{v}");
+    let (_, last) = c.last().unwrap();
+    assert!(
+        last.contains("safety data sheet") && last.contains("licensed practice"),
+        "{last}"
+    );
+    let reserve = c
+        .iter()
+        .find(|(t, _)| t == "Acid reserve")
+        .map(|(_, t)| t.clone());
+    let reserve = reserve.unwrap_or_default();
+    // Young et al. (1988), from memory: the acid-side threshold is −0.5.
+    assert!(reserve.contains("threshold -0.5") && reserve.contains("not a classification"));
+    assert!(v.to_string().is_ascii(), "JSON stays ASCII");
+}
+
+#[test]
+fn effects_are_said_in_one_vocabulary() {
+    // Citric acid lowers pH, trisodium citrate raises it, water does nothing (the salt rule,
+    // common practice, no source).
+    let mut args = vec!["ph"];
+    args.extend(BUFFER);
+    args.push("sodium_chloride=5g");
+    args.push("--json");
+    let v = json(&args);
+    let effect = |id: &str| {
+        v["ingredients"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|i| i["id"] == id)
+            .map(|i| i["effect"].as_str().unwrap_or_default().to_owned())
+            .unwrap_or_default()
+    };
+    assert_eq!(effect("citric_acid_monohydrate"), "lowers pH");
+    assert_eq!(effect("trisodium_citrate_dihydrate"), "raises pH");
+    assert_eq!(effect("water"), "no effect");
+    assert_eq!(effect("sodium_chloride"), "no effect");
+    let salt = v["ingredients"][3]["reason"].as_str().unwrap();
+    assert_eq!(
+        salt,
+        "Na+ and Cl- come from a strong base and a strong acid: neither reacts with water"
+    );
+    // Text output: the same words, superscript charges, and molality per kg of water.
+    let mut args = vec!["ph"];
+    args.extend(BUFFER);
+    args.push("sodium_chloride=5g");
+    let out = run(&args);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(
+        text.contains("lowers pH: citric acid gives a proton to water: Ka = 7.4×10⁻⁴"),
+        "{text}"
+    );
+    assert!(
+        text.contains("Na⁺ and Cl⁻ come from a strong base and a strong acid"),
+        "{text}"
+    );
+    assert!(text.contains("mol/kg water"), "{text}");
+    assert!(
+        !text.contains("acidifies") && !text.contains("basifies"),
+        "{text}"
+    );
+}
+
+#[test]
+fn a_mistyped_id_gets_the_nearest_ids() {
+    let err = fails(&["ph", "citrc=1g", "water=100g"]);
+    assert!(
+        err.contains("unknown ingredient 'citrc'; did you mean citric_acid"),
+        "{err}"
+    );
+}
+
+#[test]
+fn a_zero_batch_is_refused_without_contradiction() {
+    let err = fails(&["ph", "water=100g", "--qs-to", "0g"]);
+    assert!(err.contains("q.s. batch size 0 g is not allowed"), "{err}");
+    assert!(err.contains("above 0 g"), "{err}");
+    assert!(!err.contains("0 or more"), "{err}");
+}
+
+#[test]
+fn dose_and_curve_carry_the_cautions_of_an_acid_adjuster_on_hypochlorite() {
+    // Acid into hypochlorite releases chlorine (common practice, no source).
+    let v = json(&[
+        "dose",
+        "water=900g",
+        "sodium_hypochlorite_12=100g",
+        "--adjuster",
+        "hydrochloric_acid_36",
+        "--target-ph",
+        "9",
+        "--json",
+    ]);
+    let c = cautions(&v);
+    assert!(
+        c.iter()
+            .any(|(t, x)| t == "Chlorine gas risk" && x.contains("pH adjuster")),
+        "{v}"
+    );
+    assert!(
+        c.last()
+            .is_some_and(|(_, x)| x.contains("safety data sheet")),
+        "{v}"
+    );
+    assert!(
+        v["amount_g"].as_f64().unwrap() > 0.0,
+        "the documented fields stay"
+    );
+    let v = json(&[
+        "curve",
+        "water=900g",
+        "sodium_hypochlorite_12=100g",
+        "--dose",
+        "hydrochloric_acid_36=0..1g",
+        "--points",
+        "5",
+        "--json",
+    ]);
+    let c = cautions(&v);
+    assert!(c.iter().any(|(t, _)| t == "Chlorine gas risk"), "{v}");
+    assert_eq!(v["points"].as_array().unwrap().len(), 5);
+    // Text output carries them too.
+    let out = run(&[
+        "dose",
+        "water=900g",
+        "sodium_hypochlorite_12=100g",
+        "--adjuster",
+        "hydrochloric_acid_36",
+        "--target-ph",
+        "9",
+    ]);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(
+        text.contains("Chlorine gas risk") && text.contains("safety data sheet"),
+        "{text}"
+    );
+}
+
+#[test]
+fn projects_open_through_the_checked_loader() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("typo.ron");
+    let mut p = Project::demo();
+    p.recipe.lines[0].ingredient = "lactic_acd_88".into();
+    p.save(&path).unwrap();
+    let err = fails(&["ph", "--project", path.to_str().unwrap()]);
+    assert!(err.contains("unknown ingredient 'lactic_acd_88'"), "{err}");
+    assert!(err.contains("line ") && err.contains("column"), "{err}");
+}

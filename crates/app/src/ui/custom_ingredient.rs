@@ -8,11 +8,6 @@ use saltwise_chem::library::{Ingredient, Release, System};
 
 use crate::command::{Command, RecipeEdit};
 
-/// Smallest pKa a custom system may have.
-const PKA_MIN: f64 = -5.0;
-/// Largest pKa a custom system may have.
-const PKA_MAX: f64 = 20.0;
-
 /// What has been typed into the form.
 #[derive(Debug, Clone, Default)]
 pub struct CustomForm {
@@ -135,10 +130,10 @@ fn check_pka(text: &str) -> Result<Vec<f64>, String> {
     let mut pka: Vec<f64> = Vec::new();
     for part in text.split([',', ' ', ';']).filter(|p| !p.trim().is_empty()) {
         let part = part.trim();
-        let v = super::parse_number(part)
+        let v = saltwise_chem::limits::parse_number(part)
             .filter(|v| v.is_finite())
             .ok_or_else(|| format!("pKa '{part}' is not a number"))?;
-        if !(PKA_MIN..=PKA_MAX).contains(&v) {
+        if !saltwise_chem::limits::PKA.allows(v) {
             return Err(format!(
                 "pKa {part} is outside −5…20, the range a pKa can have here"
             ));
@@ -164,7 +159,7 @@ fn check_assay(text: &str) -> Result<f64, String> {
     if t.is_empty() {
         return Ok(1.0);
     }
-    let a = super::parse_number(t)
+    let a = saltwise_chem::limits::parse_number(t)
         .filter(|a| a.is_finite())
         .ok_or_else(|| format!("assay '{t}' is not a number"))?;
     if a <= 0.0 || a > 100.0 {

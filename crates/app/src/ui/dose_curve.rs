@@ -7,21 +7,15 @@ use saltwise_chem::Library;
 use saltwise_chem::library::ResolvedRelease;
 use saltwise_chem::project::Settings;
 
-use super::{Allowed, Field, PanelState, checked_drag, sig};
+use super::{Field, PanelState, checked_drag, sig};
 use crate::command::{Command, RecipeEdit};
 use crate::engine::Engine;
+use saltwise_chem::limits::DOSE_MAX_G as LARGEST_DOSE;
 
 /// Height of a main chart: what the window leaves below the readout, within limits.
 pub fn chart_height(ui: &Ui) -> f32 {
     (ui.ctx().content_rect().height() - 600.0).clamp(240.0, 560.0)
 }
-/// What the largest dose may be, g.
-const LARGEST_DOSE: Allowed = Allowed {
-    min: 0.0,
-    min_exclusive: true,
-    max: 1.0e6,
-    rule: "the largest dose is above 0 g and at most 1 000 000 g",
-};
 /// Height of the buffer-capacity chart, points.
 const BUFFER_HEIGHT: f32 = 140.0;
 

@@ -13,6 +13,7 @@ use std::collections::BTreeMap;
 use std::rc::Rc;
 
 use egui::{Color32, DragValue, Response, RichText, Role, Ui, WidgetInfo};
+use saltwise_chem::limits::Limit;
 
 /// Runtime state of the panels that is not part of the project.
 #[derive(Debug, Clone, Default)]
@@ -93,58 +94,6 @@ pub fn name_widget(response: Response, role: Role, name: &str) -> Response {
 /// Why the last text typed into a number field was refused, by the field's accessible name.
 pub type Refusals = BTreeMap<String, String>;
 
-/// What a number typed into a field may be.
-#[derive(Debug, Clone, Copy)]
-pub struct Allowed {
-    /// Smallest value.
-    pub min: f64,
-    /// Whether the smallest value itself is refused (a batch of 0 g).
-    pub min_exclusive: bool,
-    /// Largest value.
-    pub max: f64,
-    /// The rule in words, shown when a number is refused ("amounts are 0 or more").
-    pub rule: &'static str,
-}
-
-impl Allowed {
-    /// Why `text` cannot be taken, or the number it means.
-    pub fn check(&self, text: &str) -> Result<f64, String> {
-        let shown = text.trim();
-        if shown.is_empty() {
-            return Err(format!("type a number: {}", self.rule));
-        }
-        let Some(v) = parse_number(shown) else {
-            return Err(format!("'{shown}' is not a number: {}", self.rule));
-        };
-        if !v.is_finite() {
-            return Err(format!("'{shown}' is not a finite number: {}", self.rule));
-        }
-        let low = if self.min_exclusive {
-            v <= self.min
-        } else {
-            v < self.min
-        };
-        if low || v > self.max {
-            return Err(format!("{shown} refused: {}", self.rule));
-        }
-        Ok(v)
-    }
-}
-
-/// A number as people type it: spaces ignored, the minus sign or a hyphen, and a decimal comma
-/// when there is no decimal point.
-pub fn parse_number(text: &str) -> Option<f64> {
-    let mut t: String = text
-        .chars()
-        .filter(|c| !c.is_whitespace())
-        .map(|c| if c == '−' { '-' } else { c })
-        .collect();
-    if !t.contains('.') && t.matches(',').count() == 1 {
-        t = t.replace(',', ".");
-    }
-    t.parse().ok()
-}
-
 /// A drag value whose typed text is checked against `allowed`: refused text leaves the value as
 /// it was, and the reason is shown beside the field until a change is accepted. `name` is what
 /// the field is found by; `hint` is its tooltip.
@@ -153,13 +102,13 @@ pub fn checked_drag(
     value: &mut f64,
     configure: impl FnOnce(DragValue<'_>) -> DragValue<'_>,
     field: Field<'_>,
-    allowed: Allowed,
+    allowed: Limit,
     refused: &mut Refusals,
 ) -> Response {
     let verdict: Rc<RefCell<Option<Result<f64, String>>>> = Rc::default();
     let seen = Rc::clone(&verdict);
     let drag = configure(DragValue::new(value)).custom_parser(move |text| {
-        let result = allowed.check(text);
+        let result = allowed.check_text(text).map_err(|e| e.to_string());
         let value = result.as_ref().ok().copied();
         *seen.borrow_mut() = Some(result);
         value
@@ -218,7 +167,7 @@ pub fn sig(x: f64, digits: usize) -> String {
 
 #[cfg(test)]
 mod tests {
-    use super::{Allowed, parse_number, sig};
+    use super::sig;
 
     #[test]
     fn numbers_keep_their_significant_figures() {
@@ -226,31 +175,6 @@ mod tests {
         assert_eq!(sig(123.456, 4), "123.5");
         assert_eq!(sig(0.0, 3), "0");
         assert_eq!(sig(1.5e-7, 2), "1.5e-7");
-    }
-
-    #[test]
-    fn typed_numbers_are_read_as_people_write_them() {
-        assert_eq!(parse_number(" 12.5 "), Some(12.5));
-        assert_eq!(parse_number("12,5"), Some(12.5));
-        assert_eq!(parse_number("−3"), Some(-3.0));
-        assert_eq!(parse_number("1 000"), Some(1000.0));
-        assert_eq!(parse_number("1,000.5"), None);
-        assert_eq!(parse_number("abc"), None);
-    }
-
-    #[test]
-    fn refused_numbers_say_why() {
-        let a = Allowed {
-            min: 0.0,
-            min_exclusive: true,
-            max: 10.0,
-            rule: "between 0 and 10",
-        };
-        assert_eq!(a.check("5"), Ok(5.0));
-        assert_eq!(a.check("0").unwrap_err(), "0 refused: between 0 and 10");
-        assert_eq!(a.check("11").unwrap_err(), "11 refused: between 0 and 10");
-        assert!(a.check("inf").unwrap_err().contains("not a finite number"));
-        assert!(a.check("x").unwrap_err().starts_with("'x' is not a number"));
     }
 }
 

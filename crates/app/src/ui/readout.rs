@@ -5,32 +5,12 @@ use egui::{RichText, Ui};
 use saltwise_chem::ActivityModel;
 use saltwise_chem::project::Settings;
 
-use super::{Allowed, Field, Refusals, checked_drag, sig};
+use super::{Field, Refusals, checked_drag, sig};
 use crate::engine::Engine;
+use saltwise_chem::limits::{BAND as TOLERANCE, TARGET_PH, TEMPERATURE_C as TEMPERATURE};
 
 /// Width from which values and conditions fit on one row, points.
 const WIDE_POINTS: f32 = 860.0;
-/// What a temperature may be, °C.
-const TEMPERATURE: Allowed = Allowed {
-    min: saltwise_chem::solver::TEMP_MIN_C,
-    min_exclusive: false,
-    max: saltwise_chem::solver::TEMP_MAX_C,
-    rule: "the temperature model covers 0–95 °C",
-};
-/// What a target pH may be.
-const TARGET_PH: Allowed = Allowed {
-    min: -1.0,
-    min_exclusive: false,
-    max: 15.0,
-    rule: "a target pH is between −1 and 15",
-};
-/// What the half-width of the target band may be, pH units.
-const TOLERANCE: Allowed = Allowed {
-    min: 0.0,
-    min_exclusive: false,
-    max: 3.0,
-    rule: "the band is 0 to 3 pH units either side",
-};
 
 /// Draws the readout.
 pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine, refused: &mut Refusals) {

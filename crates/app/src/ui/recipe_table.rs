@@ -6,26 +6,13 @@ use saltwise_chem::explain::{Effect, IngredientEffect};
 use saltwise_chem::project::Project;
 use saltwise_chem::{Amount, Library, RecipeLine, Unit};
 
-use super::{Allowed, Field, PanelState, Refusals, checked_drag, named_button, sig};
+use super::{Field, PanelState, Refusals, checked_drag, named_button, sig};
 use crate::command::{Command, RecipeEdit};
 use crate::engine::Engine;
+use saltwise_chem::limits::{AMOUNT, BATCH_G as BATCH};
 
 /// Most matches the picker lists at once.
 const PICKER_ROWS: usize = 40;
-/// What an amount may be.
-const AMOUNT: Allowed = Allowed {
-    min: 0.0,
-    min_exclusive: false,
-    max: 1.0e7,
-    rule: "an amount is a number from 0 to 10 000 000",
-};
-/// What a q.s. batch size may be.
-const BATCH: Allowed = Allowed {
-    min: 0.0,
-    min_exclusive: true,
-    max: 1.0e8,
-    rule: "a batch is above 0 g and at most 100 000 000 g",
-};
 
 /// Draws the recipe panel.
 pub fn recipe_panel_ui(

@@ -15,13 +15,9 @@ pub fn form_names(system: &System) -> Vec<String> {
         .collect()
 }
 
-/// A charge written as `0`, `+1`, `−2`.
-fn charge_label(z: i64) -> String {
-    match z.cmp(&0) {
-        std::cmp::Ordering::Equal => "0".to_owned(),
-        std::cmp::Ordering::Greater => format!("+{z}"),
-        std::cmp::Ordering::Less => format!("−{}", -z),
-    }
+/// A charge for display, as written after an ion: `0`, `⁺`, `²⁻` (ASCII via [`crate::text::ascii`]).
+pub fn charge_label(z: i64) -> String {
+    crate::text::charge_superscript(z)
 }
 
 #[cfg(test)]
@@ -47,11 +43,11 @@ mod tests {
             form_names(&s),
             [
                 "phosphoric acid form 0 (0)",
-                "phosphoric acid form 1 (−1)",
-                "phosphoric acid form 2 (−2)",
-                "phosphoric acid form 3 (−3)"
+                "phosphoric acid form 1 (⁻)",
+                "phosphoric acid form 2 (²⁻)",
+                "phosphoric acid form 3 (³⁻)"
             ]
         );
-        assert_eq!(charge_label(1), "+1");
+        assert_eq!(charge_label(1), "⁺");
     }
 }

@@ -140,7 +140,7 @@ impl Library {
         }
         let formula = Formula::parse(&ingredient.formula)
             .map_err(|e| invalid("ingredient", &id, &e.to_string()))?;
-        if !(ingredient.assay > 0.0 && ingredient.assay <= 1.0) {
+        if !crate::limits::ASSAY.allows(ingredient.assay) {
             return Err(invalid(
                 "ingredient",
                 &id,
@@ -290,7 +290,7 @@ fn validate_system(s: &System) -> Result<(), LibraryError> {
         ));
     }
     for (k, pka) in s.pka.iter().enumerate() {
-        if !pka.is_finite() || !(-5.0..=20.0).contains(pka) {
+        if !crate::limits::PKA.allows(*pka) {
             return Err(invalid(
                 "system",
                 &s.id,
@@ -313,7 +313,7 @@ fn validate_system(s: &System) -> Result<(), LibraryError> {
         return Err(invalid(
             "system",
             &s.id,
-            "pka_ionic_strength must be between 0 and 5 mol/kg",
+            "pka_ionic_strength must be between 0 and 5 mol/kg water",
         ));
     }
     if s.source.trim().is_empty() {

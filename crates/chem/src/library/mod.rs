@@ -13,7 +13,7 @@ mod suggest;
 use std::collections::HashMap;
 
 pub use entry::{Entry, ResolvedRelease};
-pub use forms::form_names;
+pub use forms::{charge_label, form_names};
 pub use model::{Hazard, Ingredient, Ion, LibraryData, Release, System};
 
 /// Id of the reserved ion for a proton released by a strong acid.

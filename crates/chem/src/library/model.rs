@@ -74,10 +74,15 @@ pub enum Hazard {
     Corrosive,
     /// Irritant to skin or eyes as supplied.
     Irritant,
-    /// Hypochlorite: releases chlorine with acids, chloramines with ammonium salts.
+    /// Hypochlorite: releases chlorine with acids, chloramines with ammonium salts and amines.
     Hypochlorite,
     /// A source of ammonia.
     Ammonia,
+    /// Carries a primary or secondary amine group (–NH₂, >NH): forms chloramines with
+    /// hypochlorite, as ammonia does.
+    Amine,
+    /// Carries a tertiary amine group (no N–H): reacts with hypochlorite more slowly.
+    TertiaryAmine,
     /// Harmful if swallowed or inhaled.
     Harmful,
     /// Oxidising.

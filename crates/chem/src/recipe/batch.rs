@@ -65,20 +65,7 @@ impl Recipe {
                 });
             };
             let v = line.amount.value;
-            if !v.is_finite() {
-                return Err(RecipeError::BadAmount {
-                    id: line.ingredient.clone(),
-                    value: v,
-                    problem: "not a finite number",
-                });
-            }
-            if v < 0.0 {
-                return Err(RecipeError::BadAmount {
-                    id: line.ingredient.clone(),
-                    value: v,
-                    problem: "negative",
-                });
-            }
+            crate::limits::AMOUNT.check_as(v, &format!("amount of {}", line.ingredient))?;
             let e = &library.entries()[entry];
             let grams = e.grams(line.amount);
             if line.enabled {
@@ -89,18 +76,8 @@ impl Recipe {
             }
             resolved.push((entry, grams, line));
         }
-        if let Some(qs) = self.qs_to_g
-            && (!qs.is_finite() || qs <= 0.0)
-        {
-            return Err(RecipeError::BadAmount {
-                id: "q.s. batch size".into(),
-                value: qs,
-                problem: if qs.is_finite() {
-                    "not above 0"
-                } else {
-                    "not a finite number"
-                },
-            });
+        if let Some(qs) = self.qs_to_g {
+            crate::limits::BATCH_G.check(qs)?;
         }
         let total_g = match self.qs_to_g {
             Some(qs) => qs,

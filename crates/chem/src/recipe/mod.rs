@@ -8,7 +8,8 @@ mod totals;
 
 use serde::{Deserialize, Serialize};
 
-pub use crate::amount::{Amount, Unit};
+use crate::amount::Amount;
+
 pub use batch::{Batch, LineMass};
 pub use totals::Totals;
 
