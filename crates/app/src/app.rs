@@ -267,6 +267,11 @@ impl Workbench {
                 .id_salt("results_scroll")
                 .auto_shrink([false, false])
                 .show(ui, |ui| {
+                    ui::ResultsView {
+                        content_top: ui.min_rect().top(),
+                        view_height: ui.clip_rect().height(),
+                    }
+                    .store(ui.ctx());
                     ui::readout::readout_ui(
                         ui,
                         &mut project.settings,

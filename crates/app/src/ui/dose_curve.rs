@@ -12,10 +12,6 @@ use crate::command::{Command, RecipeEdit};
 use crate::engine::Engine;
 use saltwise_chem::limits::DOSE_MAX_G as LARGEST_DOSE;
 
-/// Height of a main chart: what the window leaves below the readout, within limits.
-pub fn chart_height(ui: &Ui) -> f32 {
-    (ui.ctx().content_rect().height() - 600.0).clamp(240.0, 560.0)
-}
 /// Height of the buffer-capacity chart, points.
 const BUFFER_HEIGHT: f32 = 140.0;
 
@@ -110,7 +106,13 @@ pub fn dose_curve_ui(
         .and_then(|r| r.as_ref().ok())
         .map(|d| d.amount_g)
         .filter(|d| *d <= settings.dose_max_g);
-    let height = chart_height(ui);
+    let below = 28.0
+        + if panels.show_buffer_capacity {
+            BUFFER_HEIGHT + 12.0
+        } else {
+            0.0
+        };
+    let height = super::chart_height(ui, below);
     let current_color = super::current_color(ui);
     // Put the legend in the bottom corner the curve leaves empty: right for a rising curve,
     // left for a falling one.

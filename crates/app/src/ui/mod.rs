@@ -83,6 +83,39 @@ pub fn named_button(ui: &mut Ui, text: &str, name: &str) -> Response {
     response
 }
 
+/// Where the scrolled results start and how tall their view is, for [`chart_height`].
+#[derive(Debug, Clone, Copy)]
+pub struct ResultsView {
+    /// Top of the results' content, screen points (moves with scrolling).
+    pub content_top: f32,
+    /// Height of the visible part, points.
+    pub view_height: f32,
+}
+
+impl ResultsView {
+    fn id() -> egui::Id {
+        egui::Id::unique("saltwise_results_view")
+    }
+
+    /// Records the view for the charts drawn in this pass.
+    pub fn store(self, ctx: &egui::Context) {
+        ctx.data_mut(|d| d.insert_temp(Self::id(), self));
+    }
+}
+
+/// Height of a main chart: what the results view leaves for it and `below_points` of text under
+/// it, so the window at 1600×1000 shows everything without scrolling; never under 220 points
+/// (smaller windows scroll) nor over 560. It does not change as the view scrolls.
+pub fn chart_height(ui: &Ui, below_points: f32) -> f32 {
+    let view = ui
+        .ctx()
+        .data(|d| d.get_temp::<ResultsView>(ResultsView::id()));
+    let room = view.map_or(400.0, |v| {
+        v.view_height - (ui.cursor().top() - v.content_top) - below_points
+    });
+    room.clamp(220.0, 560.0)
+}
+
 /// Gives a widget the accessible name `name` (what tests and screen readers find it by), so its
 /// tooltip is free to add information instead of repeating the label.
 pub fn name_widget(response: Response, role: Role, name: &str) -> Response {

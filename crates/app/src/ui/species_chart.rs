@@ -78,7 +78,10 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
     );
     let current = super::current_color(ui);
     Plot::new("species_plot")
-        .height(super::dose_curve::chart_height(ui))
+        .height(super::chart_height(
+            ui,
+            64.0 + 22.0 * data.forms.len() as f32,
+        ))
         .x_grid_spacer(egui_plot::uniform_grid_spacer(|_| [1.0, 2.0, 4.0]))
         .x_axis_label("pH")
         .y_axis_label("Fraction")
