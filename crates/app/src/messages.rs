@@ -67,6 +67,21 @@ pub struct Notice {
     pub consequence: String,
 }
 
+/// A message from the core as the window shows it: trimmed, first letter capitalised — unless
+/// the first word is a term the trade writes in lower case (pH, p[H], q.s.).
+pub fn sentence(text: &str) -> String {
+    let text = text.trim();
+    let first_word = text.split_whitespace().next().unwrap_or("");
+    let keeps_case = first_word.starts_with("q.s.") || first_word.chars().any(char::is_uppercase);
+    let mut chars = text.chars();
+    match chars.next() {
+        Some(first) if first.is_lowercase() && !keeps_case => {
+            first.to_uppercase().chain(chars).collect()
+        }
+        _ => text.to_owned(),
+    }
+}
+
 /// The status line, the file problem and the question, each at most one.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct Messages {
@@ -78,12 +93,7 @@ pub struct Messages {
 impl Messages {
     /// Shows a message in the status line (sentence case, full stop added when missing).
     pub fn status(&mut self, text: &str, is_error: bool) {
-        let mut text = text.trim().to_owned();
-        if let Some(first) = text.chars().next()
-            && first.is_lowercase()
-        {
-            text = first.to_uppercase().chain(text.chars().skip(1)).collect();
-        }
+        let mut text = sentence(text);
         if !text.ends_with(['.', '!', '?', ')']) {
             text.push('.');
         }
@@ -143,6 +153,13 @@ mod tests {
             m.current_status().map(|s| s.text.as_str()),
             Some("Nothing to undo.")
         );
+    }
+
+    #[test]
+    fn the_trades_lower_case_terms_keep_their_case() {
+        assert_eq!(sentence("pH 16 is not allowed"), "pH 16 is not allowed");
+        assert_eq!(sentence("q.s. batch size 0 g"), "q.s. batch size 0 g");
+        assert_eq!(sentence(" ionic strength 2"), "Ionic strength 2");
     }
 
     #[test]

@@ -25,7 +25,7 @@ fn a_negative_amount_is_refused_beside_the_field_and_the_amount_kept() {
     let mut h = harness_in(citric_project(), &Folders::under(dir.path()));
     type_into(&mut h, "Amount of line 2", "-5");
     h.get_by_label(
-        "amount -5 is not allowed: it is negative; amounts are finite numbers from 0 to 10 000 000 in their unit",
+        "Amount -5 is not allowed: it is negative; amounts are finite numbers from 0 to 10 000 000 in their unit",
     );
     assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
     assert!(!h.state().is_dirty(), "nothing changed");
@@ -34,7 +34,7 @@ fn a_negative_amount_is_refused_beside_the_field_and_the_amount_kept() {
     type_into(&mut h, "Amount of line 2", "12");
     assert_eq!(h.state().project().recipe.lines[1].amount.value, 12.0);
     assert!(
-        h.query_by_label_contains("amount -5 is not allowed")
+        h.query_by_label_contains("Amount -5 is not allowed")
             .is_none(),
         "the reason goes once a good value is typed"
     );
@@ -46,11 +46,11 @@ fn an_amount_that_is_not_a_number_is_refused_beside_the_field() {
     let mut h = harness_in(citric_project(), &Folders::under(dir.path()));
     type_into(&mut h, "Amount of line 2", "ten");
     h.get_by_label(
-        "amount: 'ten' is not a number; amounts are finite numbers from 0 to 10 000 000 in their unit",
+        "Amount: 'ten' is not a number; amounts are finite numbers from 0 to 10 000 000 in their unit",
     );
     assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
     type_into(&mut h, "Amount of line 2", "inf");
-    h.get_by_label_contains("amount inf is not allowed: it is not a finite number");
+    h.get_by_label_contains("Amount inf is not allowed: it is not a finite number");
     assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
     // A decimal comma is read as people mean it.
     type_into(&mut h, "Amount of line 2", "12,5");
@@ -74,7 +74,7 @@ fn a_temperature_outside_the_model_is_refused_beside_the_field() {
     let mut h = harness_in(citric_project(), &Folders::under(dir.path()));
     type_into(&mut h, "Temperature", "120");
     h.get_by_label(
-        "temperature 120 °C is not allowed: it is too high; temperatures are 0–95 °C, the range of the temperature model",
+        "Temperature 120 °C is not allowed: it is too high; temperatures are 0–95 °C, the range of the temperature model",
     );
     assert_eq!(h.state().project().settings.temp_c, 25.0);
     type_into(&mut h, "Temperature", "40");
@@ -86,7 +86,7 @@ fn a_target_ph_outside_minus_one_to_fifteen_is_refused_beside_the_field() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness_in(Project::demo(), &Folders::under(dir.path()));
     type_into(&mut h, "Target pH value", "16");
-    h.get_by_label("target pH 16 is not allowed: it is too high; a target pH is from −1 to 15");
+    h.get_by_label("Target pH 16 is not allowed: it is too high; a target pH is from −1 to 15");
     assert_eq!(h.state().project().settings.target_ph, Some(5.0));
 }
 
@@ -96,7 +96,7 @@ fn a_largest_dose_of_zero_is_refused_beside_the_field() {
     let mut h = harness_in(Project::demo(), &Folders::under(dir.path()));
     type_into(&mut h, "Largest dose", "0");
     h.get_by_label(
-        "largest dose 0 g is not allowed: it is too low; the largest dose is above 0 g and at most 1 000 000 g",
+        "Largest dose 0 g is not allowed: it is too low; the largest dose is above 0 g and at most 1 000 000 g",
     );
     assert_eq!(h.state().project().settings.dose_max_g, 20.0);
 }
@@ -248,8 +248,11 @@ fn assert_warnings_shown(project: Project, expected: &str) {
         "expected '{expected}' among {warnings:?}"
     );
     h.get_by_label("Limits of this prediction");
+    // Shown as sentences: the first letter capitalised.
     for w in &warnings {
-        h.get_by_label(w);
+        let mut shown = w.clone();
+        shown.replace_range(..1, &w[..1].to_uppercase());
+        h.get_by_label(&shown);
     }
 }
 

@@ -168,7 +168,11 @@ pub fn checked_drag(
         None => {}
     }
     if let Some(why) = refused.get(name) {
-        ui.label(RichText::new(why).color(ERROR).small());
+        ui.label(
+            RichText::new(crate::messages::sentence(why))
+                .color(ERROR)
+                .small(),
+        );
     }
     response
 }

@@ -38,7 +38,7 @@ pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine, refused
                     .color(super::WARN),
             );
             for w in &report.warnings {
-                ui.colored_label(super::WARN, w);
+                ui.colored_label(super::WARN, crate::messages::sentence(w));
             }
         }
     });
