@@ -14,6 +14,7 @@ use saltwise_chem::{Amount, Library, Recipe, Unit};
 
 use saltwise_chem::curve::Doser;
 pub use saltwise_chem::curve::{CurvePoint, DoseResult, EquivalencePoint};
+use saltwise_chem::drift::{self, Drift};
 use saltwise_chem::explain::{self, IngredientEffect};
 use saltwise_chem::hazard::{self, Caution};
 
@@ -62,6 +63,8 @@ pub struct SpeciesData {
     pub molalities: Vec<f64>,
     /// Index of the form with the largest fraction at the recipe's pH.
     pub dominant: usize,
+    /// Index of the active form (the uncharged one, else the fully protonated one).
+    pub active: usize,
 }
 
 /// The solved recipe and what follows directly from it.
@@ -69,6 +72,8 @@ pub struct SpeciesData {
 struct Solved {
     result: Result<Report, String>,
     effects: Vec<Option<IngredientEffect>>,
+    /// How the pH moves when acid, base or air gets in, or why it cannot be said.
+    drift: Option<Result<Drift, String>>,
 }
 
 /// What the dose curve is made from, beyond the report.
@@ -149,6 +154,11 @@ impl Engine {
     /// What the ingredient of each recipe line does to pH (`None` for an unknown ingredient).
     pub fn effects(&self) -> &[Option<IngredientEffect>] {
         self.solved.as_ref().map_or(&[], |(_, s)| &s.effects)
+    }
+
+    /// The pH change when 1 mmol/kg of acid or base gets in, and the pH open to air.
+    pub fn drift(&self) -> Option<&Result<Drift, String>> {
+        self.solved.as_ref().and_then(|(_, s)| s.drift.as_ref())
     }
 
     /// Cautions for the batch, its pH and the chosen adjuster, the safety-data line last.
@@ -250,14 +260,23 @@ impl Engine {
         {
             self.solves += 1;
             let solved = match constants {
-                Ok(constants) => Solved {
-                    result: report::evaluate_with(library, constants, &project.recipe)
-                        .map_err(|e| e.to_string()),
-                    effects: effects(library, constants, &project.recipe),
-                },
+                Ok(constants) => {
+                    let result = report::evaluate_with(library, constants, &project.recipe)
+                        .map_err(|e| e.to_string());
+                    let drift = result.as_ref().ok().map(|r| {
+                        drift::drift(library, constants, &r.batch, &r.composition, &r.solution)
+                            .map_err(|e| e.to_string())
+                    });
+                    Solved {
+                        result,
+                        effects: effects(library, constants, &project.recipe),
+                        drift,
+                    }
+                }
                 Err(e) => Solved {
                     result: Err(e.clone()),
                     effects: Vec::new(),
+                    drift: None,
                 },
             };
             self.solved = Some((project.recipe.clone(), solved));
@@ -327,6 +346,7 @@ impl Engine {
             Solved {
                 result: Err(why.clone()),
                 effects: Vec::new(),
+                drift: None,
             },
         ));
         self.cautions = Some((s.adjuster.clone(), Vec::new()));
@@ -478,5 +498,6 @@ fn species_data(
             .map(|j| state.molality(j))
             .collect(),
         dominant: state.dominant_form(),
+        active: drift::default_active_form(state),
     })
 }

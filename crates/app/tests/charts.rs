@@ -32,3 +32,20 @@ fn the_species_chart_has_a_legend_of_its_forms_and_the_current_ph() {
     assert!(h.query_all_by_label("lactate").count() >= 2);
     h.get_by_label_contains("Current recipe, pH");
 }
+
+#[test]
+fn the_readout_shows_the_drift_and_the_species_panel_the_active_form() {
+    let dir = tempfile::tempdir().unwrap();
+    let h = harness_in(Project::demo(), &Folders::under(dir.path()));
+    let drift = *h.state().engine().drift().unwrap().as_ref().unwrap();
+    // Acid lowers the pH of the lactate buffer a little, base raises it.
+    assert!(drift.acid_1mmol_per_kg < 0.0 && drift.base_1mmol_per_kg > 0.0);
+    h.get_by_label(&format!(
+        "1 mmol/kg product of strong acid: {:+.2} pH",
+        drift.acid_1mmol_per_kg
+    ));
+    h.get_by_label(&format!("open to air: pH {:.2}", drift.open_to_air_ph));
+    // Lactic acid, pKa 3.86 (the library's source), at the demo's pH 3.86: about half is the
+    // undissociated, active acid.
+    h.get_by_label_contains("Active form lactic acid: 4");
+}

@@ -10,6 +10,8 @@
 
 pub mod amount;
 pub mod curve;
+pub mod design;
+pub mod drift;
 pub mod error;
 pub mod explain;
 pub mod formula;
@@ -21,7 +23,9 @@ pub mod recipe;
 pub mod report;
 pub mod reserve;
 pub mod solver;
+pub mod sweep;
 pub mod text;
+pub mod tolerance;
 
 pub use amount::{Amount, Unit};
 pub use error::{DoseError, FormulaError, LibraryError, LimitError, ProjectError, RecipeError};

@@ -25,6 +25,12 @@ pub enum Command {
     Library(LibraryArgs),
     /// Properties of water at a temperature: pKw (IAPWS), density, dielectric constant, Davies A.
     Water(WaterArgs),
+    /// pH of the recipe against dilution with water (--dilute) or temperature (--temp-range).
+    Sweep(crate::sweep::SweepArgs),
+    /// pH band (5th, 50th, 95th percentile) under weighing tolerances and assay ranges.
+    Tolerance(crate::tolerance::ToleranceArgs),
+    /// Grams of an acid and a salt form of one system for a target pH and buffer capacity.
+    Design(crate::design::DesignArgs),
 }
 
 /// The activity model named on the command line.

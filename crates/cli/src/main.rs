@@ -3,8 +3,11 @@
 //! Exit codes: 0 success; 1 a problem with the input (message on stderr); 2 bad usage.
 
 mod args;
+mod design;
 mod input;
 mod output;
+mod sweep;
+mod tolerance;
 
 use std::process::ExitCode;
 
@@ -28,5 +31,8 @@ fn run(cli: args::Cli) -> anyhow::Result<ExitCode> {
         args::Command::Dose(a) => output::dose(&a),
         args::Command::Library(a) => output::library(&a),
         args::Command::Water(a) => output::water(&a),
+        args::Command::Sweep(a) => sweep::run(&a),
+        args::Command::Tolerance(a) => tolerance::run(&a),
+        args::Command::Design(a) => design::run(&a),
     }
 }

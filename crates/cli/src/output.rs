@@ -5,6 +5,7 @@ use std::process::ExitCode;
 
 use anyhow::{Context, Result};
 use saltwise_chem::curve::Doser;
+use saltwise_chem::drift;
 use saltwise_chem::explain::explain;
 use saltwise_chem::hazard::{self, Cautions};
 use saltwise_chem::library::{Release, form_names};
@@ -93,6 +94,9 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
         Some(s),
         r.adjuster.as_deref(),
     );
+    // A recipe the drift figures cannot handle still gets its pH: drift is then null.
+    let drift = drift::drift(lib, &constants, &report.batch, &report.composition, s);
+    let active = drift::active_forms(&report.systems);
     if args.json {
         let v = json!({
             "ph": s.ph,
@@ -114,6 +118,20 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
             })).collect::<Vec<_>>(),
             "warnings": report.warnings.iter().map(|w| ascii(w)).collect::<Vec<_>>(),
             "reserve": warn.reserve.as_ref().map(reserve_json),
+            "drift": drift.as_ref().ok().map(|d| json!({
+                "acid_1mmol_per_kg": d.acid_1mmol_per_kg,
+                "base_1mmol_per_kg": d.base_1mmol_per_kg,
+                "open_to_air_ph": d.open_to_air_ph,
+            })),
+            "active_forms": active.iter().map(|a| {
+                let sys = &lib.systems()[a.system];
+                json!({
+                    "system": sys.id,
+                    "form": a.form,
+                    "name": ascii(form_names(sys).get(a.form).map_or("", String::as_str)),
+                    "fraction": a.fraction,
+                })
+            }).collect::<Vec<_>>(),
             "cautions": cautions_json(&warn),
         });
         print_stdout(&format!("{}\n", serde_json::to_string_pretty(&v)?))?;
@@ -163,6 +181,28 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
                 st.total * f,
                 f
             );
+        }
+    }
+    t += "\ndrift\n";
+    match &drift {
+        Ok(d) => {
+            t += &format!(
+                "  1 mmol/kg of product of strong acid: pH {:+.3}; of strong base: pH {:+.3}\n",
+                d.acid_1mmol_per_kg, d.base_1mmol_per_kg
+            );
+            t += &format!(
+                "  open to air (CO₂ 420 ppm): settles at pH {:.3}\n",
+                d.open_to_air_ph
+            );
+        }
+        Err(e) => t += &format!("  not available: {e}\n"),
+    }
+    if !active.is_empty() {
+        t += "\nactive forms\n";
+        for a in &active {
+            let sys = &lib.systems()[a.system];
+            let name = form_names(sys).get(a.form).cloned().unwrap_or_default();
+            t += &format!("  {:<14} {:<30} {:>7.4}\n", sys.id, name, a.fraction);
         }
     }
     for w in &report.warnings {

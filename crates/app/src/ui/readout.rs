@@ -28,6 +28,7 @@ pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine, refused
             ui.separator();
             conditions_ui(ui, settings, refused);
         }
+        drift_ui(ui, engine);
         if let Some(report) = engine.solved()
             && !report.warnings.is_empty()
         {
@@ -39,6 +40,32 @@ pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine, refused
             );
             for w in &report.warnings {
                 ui.colored_label(super::WARN, crate::messages::sentence(w));
+            }
+        }
+    });
+}
+
+/// How robust the pH is: what 1 mmol/kg of acid or base does, and where air takes it.
+fn drift_ui(ui: &mut Ui, engine: &Engine) {
+    let Some(drift) = engine.drift() else {
+        return;
+    };
+    ui.separator();
+    ui.horizontal_wrapped(|ui| {
+        ui.label(RichText::new("Drift").strong());
+        match drift {
+            Ok(d) => {
+                ui.label(format!("1 mmol/kg product of strong acid: {:+.2} pH", d.acid_1mmol_per_kg))
+                    .on_hover_text("Acid picked up in use or from another raw material");
+                ui.label("·");
+                ui.label(format!("of strong base: {:+.2} pH", d.base_1mmol_per_kg));
+                ui.label("·");
+                ui.label(format!("open to air: pH {:.2}", d.open_to_air_ph)).on_hover_text(
+                    "Where the product settles in contact with air (CO₂ at 420 ppm); alkaline products take up CO₂",
+                );
+            }
+            Err(why) => {
+                ui.weak(format!("not available: {why}"));
             }
         }
     });

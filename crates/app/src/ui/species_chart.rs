@@ -76,6 +76,13 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
         ))
         .strong(),
     );
+    if let Some(active) = data.forms.get(data.active) {
+        let fraction = data.fractions_now.get(data.active).copied().unwrap_or(0.0);
+        ui.label(format!("Active form {active}: {} % at this pH", sig(fraction * 100.0, 3)))
+            .on_hover_text(
+                "The uncharged form (e.g. the undissociated acid of a preservative), else the fully protonated one",
+            );
+    }
     let current = super::current_color(ui);
     Plot::new("species_plot")
         .height(super::chart_height(
