@@ -252,6 +252,8 @@ impl Workbench {
             .resizable(true)
             .default_size((ctx.content_rect().width() * 0.48).clamp(300.0, 760.0))
             .min_size(300.0)
+            // In a small window the results keep at least about half of the width.
+            .max_size((ctx.content_rect().width() * 0.5).max(320.0))
             .show(ui, |ui| {
                 ui::recipe_table::recipe_panel_ui(
                     ui,

@@ -24,7 +24,7 @@ pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine, refused
                 conditions_ui(ui, settings, refused);
             });
         } else {
-            ui.horizontal(|ui| values_ui(ui, settings, engine));
+            ui.horizontal_wrapped(|ui| values_ui(ui, settings, engine));
             ui.separator();
             conditions_ui(ui, settings, refused);
         }
