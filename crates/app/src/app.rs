@@ -281,6 +281,7 @@ impl Workbench {
                         &mut self.panels.refused,
                     );
                     ui::cautions::cautions_ui(ui, &self.engine);
+                    ui::sweeps::sweeps_ui(ui, &self.engine, project.settings.temp_c);
                     ui.add_space(6.0);
                     // Side by side when there is room, one under the other when not.
                     let settings = &mut project.settings;

@@ -17,6 +17,7 @@ pub use saltwise_chem::curve::{CurvePoint, DoseResult, EquivalencePoint};
 use saltwise_chem::drift::{self, Drift};
 use saltwise_chem::explain::{self, IngredientEffect};
 use saltwise_chem::hazard::{self, Caution};
+use saltwise_chem::sweep;
 
 /// Points on the dose curve.
 const CURVE_POINTS: usize = 161;
@@ -67,10 +68,30 @@ pub struct SpeciesData {
     pub active: usize,
 }
 
+/// Largest in-use dilution charted (1:1000).
+pub const DILUTION_MAX: f64 = 1000.0;
+/// Points on the dilution chart.
+const DILUTION_POINTS: usize = 61;
+/// Temperatures charted, °C.
+pub const SWEEP_TEMP_C: (f64, f64) = (0.0, 80.0);
+/// Points on the temperature chart (every degree).
+const TEMPERATURE_POINTS: usize = 81;
+
+/// pH of the product against in-use dilution (x = log10 of the dilution) and temperature.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Sweeps {
+    /// (log10 dilution, pH), dilution from 1 to [`DILUTION_MAX`] with pure water.
+    pub dilution: Vec<PlotPoint>,
+    /// (temperature °C, pH) over [`SWEEP_TEMP_C`].
+    pub temperature: Vec<PlotPoint>,
+}
+
 /// The solved recipe and what follows directly from it.
 #[derive(Debug, Clone, PartialEq)]
 struct Solved {
     result: Result<Report, String>,
+    /// pH against in-use dilution and against temperature.
+    sweeps: Option<Result<Sweeps, String>>,
     effects: Vec<Option<IngredientEffect>>,
     /// How the pH moves when acid, base or air gets in, or why it cannot be said.
     drift: Option<Result<Drift, String>>,
@@ -154,6 +175,11 @@ impl Engine {
     /// What the ingredient of each recipe line does to pH (`None` for an unknown ingredient).
     pub fn effects(&self) -> &[Option<IngredientEffect>] {
         self.solved.as_ref().map_or(&[], |(_, s)| &s.effects)
+    }
+
+    /// pH against in-use dilution and against temperature, for the charts.
+    pub fn sweeps(&self) -> Option<&Result<Sweeps, String>> {
+        self.solved.as_ref().and_then(|(_, s)| s.sweeps.as_ref())
     }
 
     /// The pH change when 1 mmol/kg of acid or base gets in, and the pH open to air.
@@ -267,14 +293,17 @@ impl Engine {
                         drift::drift(library, constants, &r.batch, &r.composition, &r.solution)
                             .map_err(|e| e.to_string())
                     });
+                    let sweeps = result.as_ref().ok().map(|r| sweeps(library, constants, r));
                     Solved {
                         result,
+                        sweeps,
                         effects: effects(library, constants, &project.recipe),
                         drift,
                     }
                 }
                 Err(e) => Solved {
                     result: Err(e.clone()),
+                    sweeps: None,
                     effects: Vec::new(),
                     drift: None,
                 },
@@ -345,6 +374,7 @@ impl Engine {
             project.recipe.clone(),
             Solved {
                 result: Err(why.clone()),
+                sweeps: None,
                 effects: Vec::new(),
                 drift: None,
             },
@@ -392,6 +422,37 @@ fn effects(
                 .map(|e| explain::explain_ingredient(library, constants, e))
         })
         .collect()
+}
+
+fn sweeps(library: &Library, constants: &Constants, report: &Report) -> Result<Sweeps, String> {
+    let dilution = sweep::dilution_sweep(
+        library,
+        constants,
+        &report.batch,
+        1.0,
+        DILUTION_MAX,
+        DILUTION_POINTS,
+    )
+    .map_err(|e| e.to_string())?;
+    let temperature = sweep::temperature_sweep(
+        library,
+        constants.conditions,
+        &report.batch,
+        SWEEP_TEMP_C.0,
+        SWEEP_TEMP_C.1,
+        TEMPERATURE_POINTS,
+    )
+    .map_err(|e| e.to_string())?;
+    Ok(Sweeps {
+        dilution: dilution
+            .iter()
+            .map(|p| PlotPoint::new(p.x.log10(), p.ph))
+            .collect(),
+        temperature: temperature
+            .iter()
+            .map(|p| PlotPoint::new(p.x, p.ph))
+            .collect(),
+    })
 }
 
 /// The whole caution list, assembled by the core as for every front end.

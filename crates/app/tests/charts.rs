@@ -49,3 +49,28 @@ fn the_readout_shows_the_drift_and_the_species_panel_the_active_form() {
     // undissociated, active acid.
     h.get_by_label_contains("Active form lactic acid: 4");
 }
+
+#[test]
+fn the_in_use_view_charts_dilution_and_temperature_from_the_products_own_point() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness_in(Project::demo(), &Folders::under(dir.path()));
+    h.get_by_label("In use: dilution and temperature").click();
+    h.run();
+    h.get_by_label("pH against dilution");
+    h.get_by_label("pH against temperature");
+    h.get_by_label("Current recipe, 25.0 °C");
+    let state = h.state();
+    let ph = state.engine().solved().unwrap().solution.ph;
+    let sweeps = state.engine().sweeps().unwrap().as_ref().unwrap();
+    // Undiluted (1:1, log10 = 0) is the product itself; at 25 °C likewise.
+    assert!((sweeps.dilution[0].y - ph).abs() < 1e-9);
+    let at_25 = sweeps
+        .temperature
+        .iter()
+        .find(|p| (p.x - 25.0).abs() < 1e-9)
+        .unwrap();
+    assert!((at_25.y - ph).abs() < 1e-6, "{} vs {ph}", at_25.y);
+    // Diluting a weak-acid buffer with water moves its pH towards neutral (common practice,
+    // no source): up, for this acidic product.
+    assert!(sweeps.dilution.last().unwrap().y > ph);
+}

@@ -6,6 +6,7 @@ pub mod dose_curve;
 pub mod readout;
 pub mod recipe_table;
 pub mod species_chart;
+pub mod sweeps;
 pub mod top_bar;
 
 use std::cell::RefCell;
