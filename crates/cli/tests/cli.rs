@@ -1,35 +1,11 @@
 //! Black-box tests of the real `saltwise-cli` binary: the documented contract scripts rely on.
 
-use std::process::{Command, Output};
+mod common;
+
+use common::*;
 
 use saltwise_chem::project::Project;
 use serde_json::Value;
-
-fn run(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_saltwise-cli"))
-        .args(args)
-        .output()
-        .expect("run saltwise-cli")
-}
-
-fn json(args: &[&str]) -> Value {
-    let out = run(args);
-    assert!(
-        out.status.success(),
-        "{args:?}: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).expect("JSON on stdout")
-}
-
-/// Runs a command that must fail; returns stderr.
-fn fails(args: &[&str]) -> String {
-    let out = run(args);
-    let err = String::from_utf8_lossy(&out.stderr).into_owned();
-    assert!(!out.status.success(), "{args:?} should fail");
-    assert!(!err.contains("panicked"), "{args:?} panicked: {err}");
-    err
-}
 
 const BUFFER: &[&str] = &[
     "water=900g",

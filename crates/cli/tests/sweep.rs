@@ -1,40 +1,8 @@
 //! Black-box tests of `saltwise-cli sweep` and the drift figures of `ph --json`, on the real binary.
 
-use std::process::{Command, Output};
+mod common;
 
-use serde_json::Value;
-
-fn run(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_saltwise-cli"))
-        .args(args)
-        .output()
-        .expect("run saltwise-cli")
-}
-
-fn stdout_ok(args: &[&str]) -> String {
-    let out = run(args);
-    assert!(
-        out.status.success(),
-        "{args:?}: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    String::from_utf8(out.stdout).expect("UTF-8 on stdout")
-}
-
-fn json(args: &[&str]) -> Value {
-    serde_json::from_str(&stdout_ok(args)).expect("JSON on stdout")
-}
-
-/// Runs a command that must fail with `error: …` and exit code 1 or 2; returns stderr.
-fn fails(args: &[&str]) -> String {
-    let out = run(args);
-    let err = String::from_utf8_lossy(&out.stderr).into_owned();
-    let code = out.status.code();
-    assert!(matches!(code, Some(1 | 2)), "{args:?}: exit {code:?}");
-    assert!(err.contains("error: "), "{args:?}: {err}");
-    assert!(!err.contains("panicked"), "{args:?} panicked: {err}");
-    err
-}
+use common::*;
 
 const BUFFER: &[&str] = &[
     "water=900g",

@@ -1,39 +1,11 @@
 //! Black-box tests of `saltwise-cli tolerance`: the JSON fields, seed reproducibility and the
 //! refusals.
 
-use std::process::{Command, Output};
+mod common;
+
+use common::*;
 
 use serde_json::Value;
-
-fn run(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_saltwise-cli"))
-        .args(args)
-        .output()
-        .expect("run saltwise-cli")
-}
-
-fn json(args: &[&str]) -> Value {
-    let out = run(args);
-    assert!(
-        out.status.success(),
-        "{args:?}: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).expect("JSON on stdout")
-}
-
-fn fails(args: &[&str]) -> String {
-    let out = run(args);
-    let err = String::from_utf8_lossy(&out.stderr).into_owned();
-    assert!(!out.status.success(), "{args:?} should fail");
-    assert!(
-        matches!(out.status.code(), Some(1 | 2)),
-        "{args:?}: {out:?}"
-    );
-    assert!(!err.contains("panicked"), "{args:?} panicked: {err}");
-    assert!(err.starts_with("error"), "{args:?}: {err}");
-    err
-}
 
 const BAND: &[&str] = &[
     "tolerance",
