@@ -4,29 +4,13 @@
 
 use std::hint::black_box;
 
+mod recipes;
+
 use criterion::{Criterion, criterion_group, criterion_main};
+use recipes::twelve_ingredients;
 use saltwise_chem::curve::Doser;
 use saltwise_chem::solver::{self, fractions_against_ph};
-use saltwise_chem::{Conditions, Constants, Library, Recipe};
-
-/// Twelve ingredients, three polyprotic systems (citric, phosphoric, carbonic) and four more.
-fn twelve_ingredients() -> Recipe {
-    let items = [
-        ("water", 850.0),
-        ("citric_acid_monohydrate", 8.0),
-        ("trisodium_citrate_dihydrate", 6.0),
-        ("potassium_dihydrogen_phosphate", 3.0),
-        ("disodium_hydrogen_phosphate", 2.0),
-        ("sodium_bicarbonate", 1.5),
-        ("sodium_benzoate", 2.0),
-        ("lactic_acid_88", 1.0),
-        ("sodium_chloride", 5.0),
-        ("potassium_chloride", 1.0),
-        ("glycine", 0.5),
-        ("sodium_sulfate", 1.0),
-    ];
-    Recipe::in_grams(&items)
-}
+use saltwise_chem::{Conditions, Constants, Library};
 
 fn benches(c: &mut Criterion) {
     let lib = Library::built_in().expect("built-in library");

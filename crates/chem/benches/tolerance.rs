@@ -3,27 +3,12 @@
 
 use std::hint::black_box;
 
-use criterion::{Criterion, criterion_group, criterion_main};
-use saltwise_chem::tolerance::{Tolerances, band};
-use saltwise_chem::{Conditions, Constants, Library, Recipe};
+mod recipes;
 
-/// Twelve ingredients, three polyprotic systems and four more (as in the solve benchmark).
-fn twelve_ingredients() -> Recipe {
-    Recipe::in_grams(&[
-        ("water", 850.0),
-        ("citric_acid_monohydrate", 8.0),
-        ("trisodium_citrate_dihydrate", 6.0),
-        ("potassium_dihydrogen_phosphate", 3.0),
-        ("disodium_hydrogen_phosphate", 2.0),
-        ("sodium_bicarbonate", 1.5),
-        ("sodium_benzoate", 2.0),
-        ("lactic_acid_88", 1.0),
-        ("sodium_chloride", 5.0),
-        ("potassium_chloride", 1.0),
-        ("glycine", 0.5),
-        ("sodium_sulfate", 1.0),
-    ])
-}
+use criterion::{Criterion, criterion_group, criterion_main};
+use recipes::twelve_ingredients;
+use saltwise_chem::tolerance::{Tolerances, band};
+use saltwise_chem::{Conditions, Constants, Library};
 
 fn benches(c: &mut Criterion) {
     let lib = Library::built_in().expect("built-in library");

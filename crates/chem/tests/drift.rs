@@ -3,9 +3,7 @@
 use saltwise_chem::drift::{self, DRIFT_MMOL_PER_KG};
 use saltwise_chem::report::evaluate_with;
 use saltwise_chem::solver::SystemState;
-use saltwise_chem::{
-    ActivityModel, Amount, Conditions, Constants, Library, Recipe, RecipeLine, Unit,
-};
+use saltwise_chem::{ActivityModel, Conditions, Constants, Library, Recipe, RecipeLine};
 
 fn lib() -> Library {
     Library::built_in().expect("built-in library")
@@ -13,17 +11,6 @@ fn lib() -> Library {
 
 fn constants(lib: &Library, activity: ActivityModel, temp_c: f64) -> Constants {
     Constants::new(lib, Conditions { temp_c, activity })
-}
-
-fn mol(id: &str, value: f64) -> RecipeLine {
-    RecipeLine {
-        ingredient: id.into(),
-        amount: Amount {
-            value,
-            unit: Unit::Mole,
-        },
-        enabled: true,
-    }
 }
 
 #[test]
@@ -131,8 +118,8 @@ fn strong_acid_into_an_acetate_buffer_moves_ph_by_dose_over_capacity() {
     let recipe = Recipe {
         lines: vec![
             RecipeLine::grams("water", 1000.0),
-            mol("acetic_acid", 0.05),
-            mol("sodium_acetate_trihydrate", 0.05),
+            RecipeLine::moles("acetic_acid", 0.05),
+            RecipeLine::moles("sodium_acetate_trihydrate", 0.05),
         ],
         qs_to_g: None,
     };

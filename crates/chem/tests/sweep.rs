@@ -2,23 +2,10 @@
 
 use saltwise_chem::report::evaluate_with;
 use saltwise_chem::sweep::{self, SweepError};
-use saltwise_chem::{
-    ActivityModel, Amount, Conditions, Constants, Library, Recipe, RecipeLine, Unit,
-};
+use saltwise_chem::{ActivityModel, Conditions, Constants, Library, Recipe, RecipeLine};
 
 fn lib() -> Library {
     Library::built_in().expect("built-in library")
-}
-
-fn mol(id: &str, value: f64) -> RecipeLine {
-    RecipeLine {
-        ingredient: id.into(),
-        amount: Amount {
-            value,
-            unit: Unit::Mole,
-        },
-        enabled: true,
-    }
 }
 
 fn ideal() -> Conditions {
@@ -37,7 +24,7 @@ fn diluted_hydrochloric_acid_matches_the_exact_ideal_result() {
     let recipe = Recipe {
         lines: vec![
             RecipeLine::grams("water", 1000.0),
-            mol("hydrochloric_acid_36", 0.01),
+            RecipeLine::moles("hydrochloric_acid_36", 0.01),
         ],
         qs_to_g: None,
     };
@@ -69,8 +56,8 @@ fn diluted_acetate_buffer_agrees_with_the_solver_on_the_diluted_recipe() {
     let k = Constants::new(&lib, Conditions::default());
     let lines = vec![
         RecipeLine::grams("water", 1000.0),
-        mol("acetic_acid", 0.05),
-        mol("sodium_acetate_trihydrate", 0.05),
+        RecipeLine::moles("acetic_acid", 0.05),
+        RecipeLine::moles("sodium_acetate_trihydrate", 0.05),
     ];
     let recipe = Recipe {
         lines: lines.clone(),

@@ -38,6 +38,18 @@ impl RecipeLine {
             enabled: true,
         }
     }
+
+    /// A line of an ingredient in mol of its named substance.
+    pub fn moles(ingredient: &str, mol: f64) -> Self {
+        Self {
+            ingredient: ingredient.to_owned(),
+            amount: Amount {
+                value: mol,
+                unit: crate::amount::Unit::Mole,
+            },
+            enabled: true,
+        }
+    }
 }
 
 /// A recipe: ingredient lines and an optional q.s. water target for the batch.
