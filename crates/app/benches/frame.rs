@@ -17,7 +17,13 @@ fn frame_while_dragging(c: &mut Criterion) {
     c.bench_function("workbench frame, demo, amount changing", |b| {
         b.iter(|| {
             step = step.wrapping_add(1);
-            if let Some(line) = harness.state_mut().project_mut().recipe.lines.first_mut() {
+            if let Some(line) = harness
+                .state_mut()
+                .project_mut()
+                .recipe_mut()
+                .lines
+                .first_mut()
+            {
                 line.amount.value = 0.8 + 0.001 * f64::from(step % 200);
             }
             harness.step();

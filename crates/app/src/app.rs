@@ -179,7 +179,7 @@ impl Workbench {
         let engine = &self.engine;
         self.autosave.look_for_left_behind(|path| {
             let project = crate::command::read_project(engine, path).ok()?;
-            let n = project.recipe.lines.len();
+            let n = project.recipe().lines.len();
             Some(format!(
                 "“{}”, {n} recipe line{}",
                 project.name,

@@ -170,40 +170,40 @@ impl Workbench {
         );
         match edit {
             RecipeEdit::AddLine(line) => {
-                self.doc.edit(|p| p.recipe.lines.push(line));
+                self.doc.edit(|p| p.recipe_mut().lines.push(line));
             }
             RecipeEdit::AddCustom { system, ingredient } => {
                 let line = RecipeLine::grams(&ingredient.id, 1.0);
                 self.doc.edit(|p| {
                     p.custom.systems.push(system);
                     p.custom.ingredients.push(*ingredient);
-                    p.recipe.lines.push(line);
+                    p.recipe_mut().lines.push(line);
                 });
             }
             RecipeEdit::RemoveLine(i) => {
                 self.doc.edit(|p| {
-                    if i < p.recipe.lines.len() {
-                        p.recipe.lines.remove(i);
+                    if i < p.recipe().lines.len() {
+                        p.recipe_mut().lines.remove(i);
                     }
                 });
             }
             RecipeEdit::MoveUp(i) => {
                 self.doc.edit(|p| {
-                    if i > 0 && i < p.recipe.lines.len() {
-                        p.recipe.lines.swap(i - 1, i);
+                    if i > 0 && i < p.recipe().lines.len() {
+                        p.recipe_mut().lines.swap(i - 1, i);
                     }
                 });
             }
             RecipeEdit::MoveDown(i) => {
                 self.doc.edit(|p| {
-                    if i + 1 < p.recipe.lines.len() {
-                        p.recipe.lines.swap(i, i + 1);
+                    if i + 1 < p.recipe().lines.len() {
+                        p.recipe_mut().lines.swap(i, i + 1);
                     }
                 });
             }
             RecipeEdit::SetEnabled { line, enabled } => {
                 self.doc.edit(|p| {
-                    if let Some(l) = p.recipe.lines.get_mut(line) {
+                    if let Some(l) = p.recipe_mut().lines.get_mut(line) {
                         l.enabled = enabled;
                     }
                 });
@@ -211,7 +211,7 @@ impl Workbench {
             RecipeEdit::SetUnit { line, unit } => {
                 let converted = self.engine.amount_in(self.doc.project(), line, unit);
                 self.doc.edit(|p| {
-                    if let Some(l) = p.recipe.lines.get_mut(line) {
+                    if let Some(l) = p.recipe_mut().lines.get_mut(line) {
                         l.amount = converted.unwrap_or(saltwise_chem::Amount {
                             value: l.amount.value,
                             unit,
@@ -224,8 +224,9 @@ impl Workbench {
                     .engine
                     .solved()
                     .map_or(1000.0, |r| r.batch.total_mass_g.max(1.0));
-                self.doc
-                    .edit(|p| p.recipe.qs_to_g = on.then_some(p.recipe.qs_to_g.unwrap_or(batch_g)));
+                self.doc.edit(|p| {
+                    p.recipe_mut().qs_to_g = on.then_some(p.recipe().qs_to_g.unwrap_or(batch_g))
+                });
             }
             RecipeEdit::ApplyDose => self.apply_dose(),
         }
@@ -258,16 +259,19 @@ impl Workbench {
         let project = self.doc.project();
         // The adjuster's first line in grams takes the dose; otherwise a new line does.
         let existing = project
-            .recipe
+            .recipe()
             .lines
             .iter()
             .position(|l| l.ingredient == adjuster && l.enabled && l.amount.unit == Unit::Gram);
         self.doc.edit(|p| {
-            match existing.and_then(|i| p.recipe.lines.get_mut(i)) {
+            match existing.and_then(|i| p.recipe_mut().lines.get_mut(i)) {
                 Some(line) => line.amount.value += dose_g,
-                None => p.recipe.lines.push(RecipeLine::grams(&adjuster, dose_g)),
+                None => p
+                    .recipe_mut()
+                    .lines
+                    .push(RecipeLine::grams(&adjuster, dose_g)),
             }
-            if let Some(qs) = p.recipe.qs_to_g.as_mut() {
+            if let Some(qs) = p.recipe_mut().qs_to_g.as_mut() {
                 *qs += dose_g;
             }
         });

@@ -180,17 +180,17 @@ mod tests {
     fn a_discrete_edit_is_its_own_step_even_during_a_drag() {
         let mut doc = Document::new(Project::demo());
         // A drag in progress, not yet settled.
-        doc.project_mut().recipe.lines[0].amount.value = 0.9;
+        doc.project_mut().recipe_mut().lines[0].amount.value = 0.9;
         doc.observe(false);
-        assert!(doc.edit(|p| p.recipe.lines.push(RecipeLine::grams("water", 5.0))));
-        assert_eq!(doc.project().recipe.lines.len(), 5);
+        assert!(doc.edit(|p| p.recipe_mut().lines.push(RecipeLine::grams("water", 5.0))));
+        assert_eq!(doc.project().recipe().lines.len(), 5);
         assert!(doc.undo(), "the added line is undone first");
-        assert_eq!(doc.project().recipe.lines.len(), 4);
-        assert!((doc.project().recipe.lines[0].amount.value - 0.9).abs() < 1e-12);
+        assert_eq!(doc.project().recipe().lines.len(), 4);
+        assert!((doc.project().recipe().lines[0].amount.value - 0.9).abs() < 1e-12);
         assert!(doc.undo(), "then the drag");
         assert_eq!(doc.project(), &Project::demo());
         assert!(doc.redo() && doc.redo());
-        assert_eq!(doc.project().recipe.lines.len(), 5);
+        assert_eq!(doc.project().recipe().lines.len(), 5);
     }
 
     #[test]

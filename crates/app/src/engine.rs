@@ -229,7 +229,7 @@ impl Engine {
             && self
                 .solved
                 .as_ref()
-                .is_some_and(|(k, _)| *k == project.recipe)
+                .is_some_and(|(k, _)| k == project.recipe())
             && self
                 .cautions
                 .as_ref()
@@ -282,12 +282,12 @@ impl Engine {
         if self
             .solved
             .as_ref()
-            .is_none_or(|(k, _)| *k != project.recipe)
+            .is_none_or(|(k, _)| k != project.recipe())
         {
             self.solves += 1;
             let solved = match constants {
                 Ok(constants) => {
-                    let result = report::evaluate_with(library, constants, &project.recipe)
+                    let result = report::evaluate_with(library, constants, &project.recipe())
                         .map_err(|e| e.to_string());
                     let drift = result.as_ref().ok().map(|r| {
                         drift::drift(library, constants, &r.batch, &r.composition, &r.solution)
@@ -297,7 +297,7 @@ impl Engine {
                     Solved {
                         result,
                         sweeps,
-                        effects: effects(library, constants, &project.recipe),
+                        effects: effects(library, constants, &project.recipe()),
                         drift,
                     }
                 }
@@ -308,7 +308,7 @@ impl Engine {
                     drift: None,
                 },
             };
-            self.solved = Some((project.recipe.clone(), solved));
+            self.solved = Some((project.recipe().clone(), solved));
             self.cautions = None;
             self.curve = None;
             self.species = None;
@@ -358,7 +358,7 @@ impl Engine {
         if self
             .solved
             .as_ref()
-            .is_some_and(|(k, _)| *k == project.recipe)
+            .is_some_and(|(k, _)| k == project.recipe())
         {
             return self.solves != before;
         }
@@ -371,7 +371,7 @@ impl Engine {
         let s = &project.settings;
         self.constants = Some((conditions(s), Err(why.clone())));
         self.solved = Some((
-            project.recipe.clone(),
+            project.recipe().clone(),
             Solved {
                 result: Err(why.clone()),
                 sweeps: None,
@@ -387,7 +387,7 @@ impl Engine {
 
     /// The amount of line `line` given in `unit`, for the same mass where it can be known.
     pub fn amount_in(&self, project: &Project, line: usize, unit: Unit) -> Option<Amount> {
-        let l = project.recipe.lines.get(line)?;
+        let l = project.recipe().lines.get(line)?;
         let entry = self.library().ok()?.entry(&l.ingredient)?;
         let batch_g = self.solved().map(|r| r.batch.total_mass_g);
         let value = saltwise_chem::amount::convert(

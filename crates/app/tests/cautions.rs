@@ -9,20 +9,17 @@ use saltwise_chem::project::Project;
 use saltwise_chem::{Recipe, RecipeLine};
 
 fn bleach_with(extra: &str, adjuster: &str) -> Project {
-    let mut p = Project {
-        name: "Harbourline bleach cleaner (invented)".into(),
-        recipe: Recipe {
-            lines: vec![
-                RecipeLine::grams("water", 900.0),
-                RecipeLine::grams("sodium_hypochlorite_12", 80.0),
-                RecipeLine::grams("sodium_hydroxide", 2.0),
-            ],
-            qs_to_g: None,
-        },
-        ..Project::default()
-    };
+    let mut p = Project::with_recipe(Recipe {
+        lines: vec![
+            RecipeLine::grams("water", 900.0),
+            RecipeLine::grams("sodium_hypochlorite_12", 80.0),
+            RecipeLine::grams("sodium_hydroxide", 2.0),
+        ],
+        qs_to_g: None,
+    });
+    p.name = "Harbourline bleach cleaner (invented)".into();
     if !extra.is_empty() {
-        p.recipe.lines.push(RecipeLine::grams(extra, 5.0));
+        p.recipe_mut().lines.push(RecipeLine::grams(extra, 5.0));
     }
     p.settings.adjuster = adjuster.into();
     p

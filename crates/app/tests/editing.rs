@@ -16,7 +16,7 @@ fn each_button_press_on_the_recipe_is_one_undo_step() {
     let ids = |h: &egui_kittest::Harness<'_, saltwise::Workbench>| -> Vec<String> {
         h.state()
             .project()
-            .recipe
+            .recipe()
             .lines
             .iter()
             .map(|l| l.ingredient.clone())
@@ -28,7 +28,7 @@ fn each_button_press_on_the_recipe_is_one_undo_step() {
     assert_eq!(ids(&h)[0], "sodium_lactate_60");
     h.get_by_label("Use line 3").click();
     h.run();
-    assert!(!h.state().project().recipe.lines[2].enabled);
+    assert!(!h.state().project().recipe().lines[2].enabled);
     h.get_by_label("Remove line 4").click();
     h.run();
     assert_eq!(ids(&h).len(), 3);
@@ -36,11 +36,11 @@ fn each_button_press_on_the_recipe_is_one_undo_step() {
     h.state_mut().queue(Command::Undo);
     h.run();
     assert_eq!(ids(&h).len(), 4, "the removal comes back first");
-    assert!(!h.state().project().recipe.lines[2].enabled);
+    assert!(!h.state().project().recipe().lines[2].enabled);
     h.state_mut().queue(Command::Undo);
     h.run();
     assert!(
-        h.state().project().recipe.lines[2].enabled,
+        h.state().project().recipe().lines[2].enabled,
         "then the switch"
     );
     h.state_mut().queue(Command::Undo);
@@ -58,7 +58,7 @@ fn ctrl_z_in_a_text_field_undoes_the_typing_not_the_recipe() {
     let mut h = harness_in(citric_project(), &Folders::under(dir.path()));
     h.get_by_label("Remove line 1").click();
     h.run();
-    assert_eq!(h.state().project().recipe.lines.len(), 1);
+    assert_eq!(h.state().project().recipe().lines.len(), 1);
     h.get_by_label("Project").focus();
     h.run();
     h.get_by_label("Project").type_text(" v2");
@@ -69,7 +69,7 @@ fn ctrl_z_in_a_text_field_undoes_the_typing_not_the_recipe() {
         h.run();
     }
     assert_eq!(
-        h.state().project().recipe.lines.len(),
+        h.state().project().recipe().lines.len(),
         1,
         "the removed line stays removed while the name field has the keyboard"
     );
@@ -106,11 +106,11 @@ fn the_dose_to_target_goes_into_the_recipe_in_one_step() {
     h.get_by_label("Add this dose to the recipe").click();
     h.run();
     let project = h.state().project().clone();
-    let line = project.recipe.lines.last().unwrap();
+    let line = project.recipe().lines.last().unwrap();
     assert_eq!(line.ingredient, "sodium_hydroxide_50");
     assert!((line.amount.value - dose_g).abs() < 1e-12);
     assert_eq!(
-        project.recipe.qs_to_g,
+        project.recipe().qs_to_g,
         Some(1000.0 + dose_g),
         "on top of the batch"
     );

@@ -12,11 +12,9 @@ use saltwise_chem::project::Project;
 use saltwise_chem::{Recipe, RecipeError, RecipeLine};
 
 fn project_of(lines: Vec<RecipeLine>, qs_to_g: Option<f64>) -> Project {
-    Project {
-        name: "Bench trial".into(),
-        recipe: Recipe { lines, qs_to_g },
-        ..Project::default()
-    }
+    let mut p = Project::with_recipe(Recipe { lines, qs_to_g });
+    p.name = "Bench trial".into();
+    p
 }
 
 #[test]
@@ -27,12 +25,12 @@ fn a_negative_amount_is_refused_beside_the_field_and_the_amount_kept() {
     h.get_by_label(
         "Amount -5 is not allowed: it is negative; amounts are finite numbers from 0 to 10 000 000 in their unit",
     );
-    assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
+    assert_eq!(h.state().project().recipe().lines[1].amount.value, 10.0);
     assert!(!h.state().is_dirty(), "nothing changed");
 
     // An accepted amount takes the refusal away.
     type_into(&mut h, "Amount of line 2", "12");
-    assert_eq!(h.state().project().recipe.lines[1].amount.value, 12.0);
+    assert_eq!(h.state().project().recipe().lines[1].amount.value, 12.0);
     assert!(
         h.query_by_label_contains("Amount -5 is not allowed")
             .is_none(),
@@ -48,13 +46,13 @@ fn an_amount_that_is_not_a_number_is_refused_beside_the_field() {
     h.get_by_label(
         "Amount: 'ten' is not a number; amounts are finite numbers from 0 to 10 000 000 in their unit",
     );
-    assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
+    assert_eq!(h.state().project().recipe().lines[1].amount.value, 10.0);
     type_into(&mut h, "Amount of line 2", "inf");
     h.get_by_label_contains("Amount inf is not allowed: it is not a finite number");
-    assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
+    assert_eq!(h.state().project().recipe().lines[1].amount.value, 10.0);
     // A decimal comma is read as people mean it.
     type_into(&mut h, "Amount of line 2", "12,5");
-    assert_eq!(h.state().project().recipe.lines[1].amount.value, 12.5);
+    assert_eq!(h.state().project().recipe().lines[1].amount.value, 12.5);
 }
 
 #[test]
@@ -65,7 +63,7 @@ fn a_batch_size_of_zero_is_refused_beside_the_field() {
     h.get_by_label(
         "q.s. batch size 0 g is not allowed: it is too low; a q.s. batch size is above 0 g and at most 100 000 000 g",
     );
-    assert_eq!(h.state().project().recipe.qs_to_g, Some(1000.0));
+    assert_eq!(h.state().project().recipe().qs_to_g, Some(1000.0));
 }
 
 #[test]
@@ -138,7 +136,7 @@ fn custom_ingredient_fields_say_what_is_wrong_as_they_are_typed() {
     h.get_by_label("Add to the project").click();
     h.run();
     assert!(h.state().project().custom.ingredients.is_empty());
-    assert_eq!(h.state().project().recipe.lines.len(), 2);
+    assert_eq!(h.state().project().recipe().lines.len(), 2);
 }
 
 #[test]

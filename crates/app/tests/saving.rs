@@ -311,7 +311,7 @@ fn an_autosave_that_cannot_be_written_says_so_and_loses_nothing() {
         "{status}"
     );
     h.get_by_label(&status);
-    assert_eq!(h.state().project().recipe.lines.len(), 1);
+    assert_eq!(h.state().project().recipe().lines.len(), 1);
     assert!(h.state().is_dirty());
 }
 

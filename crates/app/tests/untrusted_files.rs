@@ -67,12 +67,12 @@ fn cases() -> Vec<(&'static str, Vec<u8>, String)> {
         ),
         (
             "future-version",
-            with("format_version: 1", "format_version: 7"),
+            with("format_version: 2", "format_version: 7"),
             "format version 7 is not one this program reads".into(),
         ),
         (
             "version-zero",
-            with("format_version: 1", "format_version: 0"),
+            with("format_version: 2", "format_version: 0"),
             "format version 0 is not one this program reads".into(),
         ),
         (

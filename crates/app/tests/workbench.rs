@@ -31,7 +31,7 @@ fn expected_ph(project: &Project) -> f64 {
         temp_c: project.settings.temp_c,
         activity: project.settings.activity,
     };
-    report::evaluate(&library, &project.recipe, conditions)
+    report::evaluate(&library, &project.recipe(), conditions)
         .unwrap()
         .solution
         .ph
@@ -40,23 +40,20 @@ fn expected_ph(project: &Project) -> f64 {
 #[test]
 fn adding_citric_acid_from_the_picker_and_typing_its_amount_shows_the_computed_ph() {
     let dir = tempfile::tempdir().unwrap();
-    let start = Project {
-        recipe: Recipe {
-            lines: vec![RecipeLine::grams("water", 500.0)],
-            qs_to_g: None,
-        },
-        ..Project::default()
-    };
+    let start = Project::with_recipe(Recipe {
+        lines: vec![RecipeLine::grams("water", 500.0)],
+        qs_to_g: None,
+    });
     let mut h = harness(start, dir.path());
 
     type_into(&mut h, "Search the library", "citric");
     h.get_by_label("Add citric acid monohydrate").click();
     h.run();
-    assert_eq!(h.state().project().recipe.lines.len(), 2);
+    assert_eq!(h.state().project().recipe().lines.len(), 2);
 
     type_into(&mut h, "Amount of line 2", "12.5");
     let project = h.state().project().clone();
-    assert_eq!(project.recipe.lines[1].amount.value, 12.5);
+    assert_eq!(project.recipe().lines[1].amount.value, 12.5);
 
     let ph = expected_ph(&project);
     h.get_by_label(&format!("pH {ph:.2}"));
@@ -94,7 +91,9 @@ fn a_saved_project_reopens_with_the_same_recipe() {
     let dir = tempfile::tempdir().unwrap();
     let file = dir.path().join("rinse.ron");
     let mut h = harness(citric_project(), dir.path());
-    h.state_mut().project_mut().recipe.lines[1].amount.value = 7.25;
+    h.state_mut().project_mut().recipe_mut().lines[1]
+        .amount
+        .value = 7.25;
     h.run();
     assert!(h.state().is_dirty());
     assert!(
@@ -111,11 +110,11 @@ fn a_saved_project_reopens_with_the_same_recipe() {
 
     h.state_mut().queue(Command::New);
     h.run();
-    assert!(h.state().project().recipe.lines.is_empty());
+    assert!(h.state().project().recipe().lines.is_empty());
 
     h.state_mut().queue(Command::OpenPath(file.clone()));
     h.run();
-    assert_eq!(h.state().project().recipe, saved.recipe);
+    assert_eq!(h.state().project().recipe(), saved.recipe());
     assert_eq!(h.state().project().settings, saved.settings);
     assert_eq!(h.state().file_path(), Some(file.as_path()));
 
@@ -130,16 +129,16 @@ fn ctrl_z_undoes_a_typed_amount_and_ctrl_shift_z_redoes_it() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness(citric_project(), dir.path());
     type_into(&mut h, "Amount of line 2", "30");
-    assert_eq!(h.state().project().recipe.lines[1].amount.value, 30.0);
+    assert_eq!(h.state().project().recipe().lines[1].amount.value, 30.0);
 
     h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
     h.run();
-    assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
+    assert_eq!(h.state().project().recipe().lines[1].amount.value, 10.0);
     assert!(!h.state().is_dirty());
 
     h.key_press_modifiers(Modifiers::COMMAND | Modifiers::SHIFT, Key::Z);
     h.run();
-    assert_eq!(h.state().project().recipe.lines[1].amount.value, 30.0);
+    assert_eq!(h.state().project().recipe().lines[1].amount.value, 30.0);
 }
 
 #[test]
@@ -148,14 +147,14 @@ fn new_with_unsaved_changes_asks_first_and_discarding_goes_ahead() {
     let mut h = harness(citric_project(), dir.path());
     h.get_by_label("Remove line 1").click();
     h.run();
-    assert_eq!(h.state().project().recipe.lines.len(), 1);
+    assert_eq!(h.state().project().recipe().lines.len(), 1);
 
     h.state_mut().queue(Command::New);
     h.run();
     assert!(h.state().prompt().is_some(), "asks before dropping changes");
     h.get_by_label("Cancel").click();
     h.run();
-    assert_eq!(h.state().project().recipe.lines.len(), 1);
+    assert_eq!(h.state().project().recipe().lines.len(), 1);
 
     h.state_mut().queue(Command::Quit);
     h.run();
@@ -214,7 +213,8 @@ fn dragging_an_amount_updates_the_ph_readout_in_the_same_frame() {
         h.step();
         let project = h.state().project().clone();
         assert_ne!(
-            project.recipe.lines[1].amount.value, 10.0,
+            project.recipe().lines[1].amount.value,
+            10.0,
             "the drag moved the amount"
         );
         // One frame only: the readout drawn in it already shows the new recipe's pH.
@@ -225,7 +225,7 @@ fn dragging_an_amount_updates_the_ph_readout_in_the_same_frame() {
     assert!(h.state().can_undo(), "the whole drag is one undo step");
     h.state_mut().queue(Command::Undo);
     h.run();
-    assert_eq!(h.state().project().recipe.lines[1].amount.value, 10.0);
+    assert_eq!(h.state().project().recipe().lines[1].amount.value, 10.0);
 }
 
 #[test]
@@ -258,7 +258,7 @@ fn a_custom_weak_acid_from_the_form_joins_the_recipe_and_solves() {
 
     let project = h.state().project().clone();
     assert_eq!(project.custom.ingredients.len(), 1);
-    let line = project.recipe.lines.last().unwrap();
+    let line = project.recipe().lines.last().unwrap();
     assert_eq!(line.ingredient, "custom_marsh_acid");
     let report = h.state().engine().solved().unwrap();
     assert!(report.systems.iter().any(|s| {
@@ -296,7 +296,7 @@ fn switching_a_line_from_percent_to_grams_keeps_its_mass() {
     h.get_by_role_and_label(egui::accesskit::Role::Button, "g")
         .click();
     h.run();
-    let line = &h.state().project().recipe.lines[0];
+    let line = &h.state().project().recipe().lines[0];
     assert_eq!(line.amount.unit, saltwise_chem::Unit::Gram);
     assert!(
         (line.amount.value - 8.0).abs() < 1e-9,
@@ -318,7 +318,7 @@ fn a_product_below_ph_4_shows_its_acid_reserve_among_the_cautions() {
     // Raised to pH 5 with sodium hydroxide it has none.
     let mut adjusted = Project::demo();
     adjusted
-        .recipe
+        .recipe_mut()
         .lines
         .push(RecipeLine::grams("sodium_hydroxide_50", 5.445));
     let mut h = harness(adjusted, dir.path());

@@ -26,6 +26,7 @@ pub mod solver;
 pub mod sweep;
 pub mod text;
 pub mod tolerance;
+pub mod variant;
 
 pub use amount::{Amount, Unit};
 pub use error::{DoseError, FormulaError, LibraryError, LimitError, ProjectError, RecipeError};

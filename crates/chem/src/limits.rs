@@ -103,8 +103,18 @@ pub const ASSAY: Limit = Limit {
     rule: "an assay is the mass fraction of the named substance, above 0 and at most 1",
 };
 
+/// A price of an ingredient as bought, per kg, in the user's own currency.
+pub const PRICE_PER_KG: Limit = Limit {
+    what: "price per kg",
+    min: 0.0,
+    min_inclusive: true,
+    max: 1e6,
+    unit: "per kg",
+    rule: "a price is from 0 to 1 000 000 per kg, in any one currency",
+};
+
 /// Every limit, for listing and tests.
-pub const ALL: [Limit; 8] = [
+pub const ALL: [Limit; 9] = [
     AMOUNT,
     BATCH_G,
     TEMPERATURE_C,
@@ -113,6 +123,7 @@ pub const ALL: [Limit; 8] = [
     DOSE_MAX_G,
     PKA,
     ASSAY,
+    PRICE_PER_KG,
 ];
 
 impl Limit {

@@ -1,4 +1,5 @@
-//! The project file a workbench saves: recipe, settings, custom ingredients, format version.
+//! The project file a workbench saves: variants of the recipe, settings, custom ingredients,
+//! format version; version-1 files (one recipe) are migrated on load.
 //!
 //! Chem's only file I/O: loading with size and nesting limits, and atomic saving, so the window
 //! and the command line share one tested path.
@@ -15,9 +16,12 @@ use crate::library::{Library, LibraryData};
 use crate::limits;
 use crate::recipe::{Recipe, RecipeLine};
 use crate::solver::ActivityModel;
+use crate::variant::{self, Variant};
 
 /// The format version this build writes.
-pub const FORMAT_VERSION: u32 = 1;
+pub const FORMAT_VERSION: u32 = 2;
+/// The name given to the one variant of a migrated version-1 project.
+pub const FIRST_VARIANT: &str = "Main";
 /// The largest project file read, in bytes.
 pub const MAX_FILE_BYTES: u64 = 4 * 1024 * 1024;
 /// The deepest nesting of brackets accepted in a project file.
@@ -57,37 +61,160 @@ impl Default for Settings {
     }
 }
 
-/// A saved project.
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+/// A saved project: one or more variants of a recipe sharing settings and custom ingredients.
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Project {
     /// File format version.
     pub format_version: u32,
     /// Project name.
-    #[serde(default)]
     pub name: String,
     /// Free notes.
-    #[serde(default)]
     pub notes: String,
-    /// The recipe.
-    pub recipe: Recipe,
+    /// The variants, in the order shown; never empty.
+    variants: Vec<Variant>,
+    /// Index of the variant being edited.
+    current: usize,
     /// Conditions and chart settings.
-    #[serde(default)]
     pub settings: Settings,
     /// Custom systems, ions and ingredients the recipe may use.
-    #[serde(default)]
     pub custom: LibraryData,
+}
+
+/// A project as written in a file of any supported version, before migration.
+#[derive(Deserialize)]
+struct Stored {
+    format_version: u32,
+    #[serde(default)]
+    name: String,
+    #[serde(default)]
+    notes: String,
+    /// Version 1: the one recipe (written bare, not as an option).
+    #[serde(default, deserialize_with = "present")]
+    recipe: Option<Recipe>,
+    /// Version 2: the variants.
+    #[serde(default)]
+    variants: Vec<Variant>,
+    #[serde(default)]
+    current: usize,
+    #[serde(default)]
+    settings: Settings,
+    #[serde(default)]
+    custom: LibraryData,
+}
+
+/// Reads a field written bare as present (RON would otherwise expect `Some(…)`).
+fn present<'de, D: serde::Deserializer<'de>>(d: D) -> Result<Option<Recipe>, D::Error> {
+    Recipe::deserialize(d).map(Some)
 }
 
 impl Default for Project {
     fn default() -> Self {
+        Self::with_recipe(Recipe::default())
+    }
+}
+
+impl Project {
+    /// An untitled project of one variant holding `recipe`, with default settings.
+    pub fn with_recipe(recipe: Recipe) -> Self {
         Self {
             format_version: FORMAT_VERSION,
             name: "Untitled".into(),
             notes: String::new(),
-            recipe: Recipe::default(),
+            variants: vec![Variant::new(FIRST_VARIANT, recipe)],
+            current: 0,
             settings: Settings::default(),
             custom: LibraryData::default(),
         }
+    }
+
+    /// The recipe of the current variant.
+    pub fn recipe(&self) -> &Recipe {
+        &self.variant().recipe
+    }
+
+    /// The recipe of the current variant, to edit.
+    pub fn recipe_mut(&mut self) -> &mut Recipe {
+        &mut self.variant_mut().recipe
+    }
+
+    /// The current variant.
+    pub fn variant(&self) -> &Variant {
+        &self.variants[self.current]
+    }
+
+    /// The current variant, to edit.
+    pub fn variant_mut(&mut self) -> &mut Variant {
+        &mut self.variants[self.current]
+    }
+
+    /// Every variant, in the order shown.
+    pub fn variants(&self) -> &[Variant] {
+        &self.variants
+    }
+
+    /// Index of the current variant.
+    pub fn current(&self) -> usize {
+        self.current
+    }
+
+    /// Index of the variant called `name`.
+    pub fn variant_index(&self, name: &str) -> Option<usize> {
+        self.variants.iter().position(|v| v.name == name.trim())
+    }
+
+    /// Makes variant `index` the current one; false when there is none.
+    pub fn set_current(&mut self, index: usize) -> bool {
+        if index < self.variants.len() {
+            self.current = index;
+            true
+        } else {
+            false
+        }
+    }
+
+    /// Adds a copy of the current variant under a new name, right after it, and makes it
+    /// current; returns its index.
+    pub fn copy_current(&mut self) -> usize {
+        let taken: Vec<&str> = self.variants.iter().map(|v| v.name.as_str()).collect();
+        let mut copy = self.variant().clone();
+        copy.name = variant::copy_name(&copy.name, &taken);
+        self.current += 1;
+        self.variants.insert(self.current, copy);
+        self.current
+    }
+
+    /// Renames variant `index`, refusing empty, too long or duplicate names.
+    pub fn rename_variant(&mut self, index: usize, name: &str) -> Result<(), String> {
+        if index >= self.variants.len() {
+            return Err(format!("there is no variant number {}", index + 1));
+        }
+        let others = self
+            .variants
+            .iter()
+            .enumerate()
+            .filter(|(i, _)| *i != index)
+            .map(|(_, v)| v.name.clone());
+        if let Some(problem) = variant::name_problem(name, others) {
+            return Err(problem);
+        }
+        self.variants[index].name = name.trim().to_owned();
+        Ok(())
+    }
+
+    /// Removes variant `index`, refusing to remove the last one; the current variant stays
+    /// current (the one before it when it is the one removed).
+    pub fn remove_variant(&mut self, index: usize) -> Result<(), String> {
+        if self.variants.len() <= 1 {
+            return Err("a project keeps at least one variant".into());
+        }
+        if index >= self.variants.len() {
+            return Err(format!("there is no variant number {}", index + 1));
+        }
+        self.variants.remove(index);
+        if self.current > index || self.current >= self.variants.len() {
+            self.current = self.current.saturating_sub(1);
+        }
+        Ok(())
     }
 }
 
@@ -99,28 +226,26 @@ impl Project {
             amount: crate::amount::Amount { value, unit },
             enabled: true,
         };
-        Self {
-            name: "Meadowbrook mild cleanser base (demo)".into(),
-            notes:
-                "Invented demo recipe: lactate buffer, benzoate preservative, water q.s. to 1 kg."
-                    .into(),
-            recipe: Recipe {
-                lines: vec![
-                    line("lactic_acid_88", 0.8, Unit::Percent),
-                    line("sodium_lactate_60", 1.2, Unit::Percent),
-                    line("sodium_benzoate", 0.4, Unit::Percent),
-                    line("sodium_chloride", 0.8, Unit::Percent),
-                ],
-                qs_to_g: Some(1000.0),
-            },
-            settings: Settings {
-                target_ph: Some(5.0),
-                adjuster: "sodium_hydroxide_50".into(),
-                dose_max_g: 20.0,
-                ..Settings::default()
-            },
-            ..Self::default()
-        }
+        let mut p = Self::with_recipe(Recipe {
+            lines: vec![
+                line("lactic_acid_88", 0.8, Unit::Percent),
+                line("sodium_lactate_60", 1.2, Unit::Percent),
+                line("sodium_benzoate", 0.4, Unit::Percent),
+                line("sodium_chloride", 0.8, Unit::Percent),
+            ],
+            qs_to_g: Some(1000.0),
+        });
+        p.name = "Meadowbrook mild cleanser base (demo)".into();
+        p.notes =
+            "Invented demo recipe: lactate buffer, benzoate preservative, water q.s. to 1 kg."
+                .into();
+        p.settings = Settings {
+            target_ph: Some(5.0),
+            adjuster: "sodium_hydroxide_50".into(),
+            dose_max_g: 20.0,
+            ..Settings::default()
+        };
+        p
     }
 
     /// Serialises to pretty RON text.
@@ -128,24 +253,80 @@ impl Project {
         ron::ser::to_string_pretty(self, ron::ser::PrettyConfig::default().struct_names(false))
     }
 
-    /// Parses a project from text; `origin` names it in errors. Migrates older versions.
+    /// Parses a project from text; `origin` names it in errors. Migrates older versions: a
+    /// version-1 recipe becomes the one variant, named [`FIRST_VARIANT`].
     pub fn from_ron(text: &str, origin: &str) -> Result<Self, ProjectError> {
         check_nesting(text, origin)?;
-        let project: Self = ron::from_str(text).map_err(|e| ProjectError::Syntax {
+        let stored: Stored = ron::from_str(text).map_err(|e| ProjectError::Syntax {
             path: origin.to_owned(),
             line: e.span.start.line,
             column: e.span.start.col,
             message: e.code.to_string(),
         })?;
-        if project.format_version == 0 || project.format_version > FORMAT_VERSION {
-            return Err(ProjectError::Version {
-                path: origin.to_owned(),
-                found: project.format_version,
-                supported: FORMAT_VERSION,
-            });
+        let invalid = |message: &str| ProjectError::Invalid {
+            path: origin.to_owned(),
+            message: message.to_owned(),
+        };
+        let variants = match (stored.format_version, stored.recipe) {
+            (1, Some(recipe)) if stored.variants.is_empty() => {
+                vec![Variant::new(FIRST_VARIANT, recipe)]
+            }
+            (1, None) => return Err(invalid("a version-1 project needs its `recipe`")),
+            (1, Some(_)) => {
+                return Err(invalid(
+                    "a version-1 project has one `recipe` and no `variants`; set format_version: 2 to use variants",
+                ));
+            }
+            (2, None) if !stored.variants.is_empty() => stored.variants,
+            (2, None) => {
+                return Err(invalid(
+                    "a version-2 project needs at least one variant in `variants`",
+                ));
+            }
+            (2, Some(_)) => {
+                return Err(invalid(
+                    "a version-2 project keeps its recipes inside `variants`, not in `recipe`",
+                ));
+            }
+            (found, _) => {
+                return Err(ProjectError::Version {
+                    path: origin.to_owned(),
+                    found,
+                    supported: FORMAT_VERSION,
+                });
+            }
+        };
+        if stored.current >= variants.len() {
+            return Err(invalid(&format!(
+                "`current` is {} but there are only {} variants (counted from 0)",
+                stored.current,
+                variants.len()
+            )));
         }
+        let project = Self {
+            format_version: FORMAT_VERSION,
+            name: stored.name,
+            notes: stored.notes,
+            variants,
+            current: stored.current,
+            settings: stored.settings,
+            custom: stored.custom,
+        };
         project.validate(origin)?;
         Ok(project)
+    }
+
+    /// "recipe line N" for messages, naming the variant when there are several.
+    fn line_label(&self, variant: usize, line: usize) -> String {
+        if self.variants.len() > 1 {
+            format!(
+                "variant '{}', recipe line {}",
+                self.variants[variant].name,
+                line + 1
+            )
+        } else {
+            format!("recipe line {}", line + 1)
+        }
     }
 
     /// Checks amounts and settings against the input limits ([`crate::limits`]).
@@ -154,14 +335,31 @@ impl Project {
             path: origin.to_owned(),
             message: e.to_string(),
         };
-        for (i, line) in self.recipe.lines.iter().enumerate() {
-            let what = format!("recipe line {} ({}): amount", i + 1, line.ingredient);
-            limits::AMOUNT
-                .check_as(line.amount.value, &what)
-                .map_err(bad)?;
+        let invalid = |message: String| ProjectError::Invalid {
+            path: origin.to_owned(),
+            message,
+        };
+        if self.variants.is_empty() || self.current >= self.variants.len() {
+            return Err(invalid("a project needs at least one variant".into()));
         }
-        if let Some(qs) = self.recipe.qs_to_g {
-            limits::BATCH_G.check(qs).map_err(bad)?;
+        for (k, v) in self.variants.iter().enumerate() {
+            let others = self.variants[..k].iter().map(|o| o.name.clone());
+            if let Some(problem) = variant::name_problem(&v.name, others) {
+                return Err(invalid(format!("variant {}: {problem}", k + 1)));
+            }
+            for (i, line) in v.recipe.lines.iter().enumerate() {
+                let what = format!("{} ({}): amount", self.line_label(k, i), line.ingredient);
+                limits::AMOUNT
+                    .check_as(line.amount.value, &what)
+                    .map_err(bad)?;
+            }
+            if let Some(qs) = v.recipe.qs_to_g {
+                limits::BATCH_G.check(qs).map_err(bad)?;
+            }
+            for (id, price) in &v.prices {
+                let what = format!("variant '{}': price per kg of {id}", v.name);
+                limits::PRICE_PER_KG.check_as(*price, &what).map_err(bad)?;
+            }
         }
         let s = &self.settings;
         limits::TEMPERATURE_C.check(s.temp_c).map_err(bad)?;
@@ -206,7 +404,14 @@ impl Project {
                 path: origin.to_owned(),
                 message: format!("custom ingredients: {e}"),
             })?;
-        for (i, line) in self.recipe.lines.iter().enumerate() {
+        let lines = self.variants.iter().enumerate().flat_map(|(k, v)| {
+            v.recipe
+                .lines
+                .iter()
+                .enumerate()
+                .map(move |(i, l)| (k, i, l))
+        });
+        for (k, i, line) in lines {
             if library.entry_index(&line.ingredient).is_none() {
                 let suggestions = library.suggest(&line.ingredient);
                 let hint = if suggestions.is_empty() {
@@ -215,8 +420,8 @@ impl Project {
                     format!("; did you mean {}?", suggestions.join(", "))
                 };
                 let message = format!(
-                    "recipe line {} uses unknown ingredient '{}'{hint}",
-                    i + 1,
+                    "{} uses unknown ingredient '{}'{hint}",
+                    self.line_label(k, i),
                     line.ingredient
                 );
                 let needle = format!("\"{}\"", line.ingredient);

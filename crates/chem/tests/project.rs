@@ -5,8 +5,11 @@ use std::path::Path;
 
 use proptest::prelude::*;
 use saltwise_chem::formula::Formula;
-use saltwise_chem::project::{MAX_FILE_BYTES, Project, backup_path, write_atomic_with};
-use saltwise_chem::{Library, ProjectError};
+use saltwise_chem::project::{
+    FIRST_VARIANT, FORMAT_VERSION, MAX_FILE_BYTES, Project, Settings, backup_path,
+    write_atomic_with,
+};
+use saltwise_chem::{ActivityModel, Amount, Library, ProjectError, Recipe, RecipeLine, Unit};
 
 fn demo_text() -> String {
     Project::demo().to_ron().expect("serialise demo")
@@ -38,9 +41,133 @@ fn a_saved_project_reads_back_the_same() {
 fn the_committed_version_1_file_loads() {
     // tests/data/project-v1.ron was written by format version 1; it must keep loading.
     let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("../../tests/data/project-v1.ron");
+    let text = fs::read_to_string(&path).unwrap();
     let (project, _) = Project::load_with_library(&path, &Library::built_in().unwrap()).unwrap();
-    assert_eq!(project.format_version, 1);
-    assert_eq!(project.recipe.lines.len(), 4);
+    // Migrated in memory to the current version: one variant holding the version-1 recipe.
+    assert_eq!(project.format_version, FORMAT_VERSION);
+    assert_eq!(project.variants().len(), 1);
+    assert_eq!(project.variant().name, FIRST_VARIANT);
+    assert!(project.variant().prices.is_empty());
+    assert_eq!(project.name, "Harbourside glass cleaner (test file)");
+    assert_eq!(project.notes, "Invented test recipe.");
+    let expected = Recipe {
+        lines: vec![
+            RecipeLine::grams("ammonia_25", 4.0),
+            RecipeLine {
+                amount: Amount {
+                    value: 0.2,
+                    unit: Unit::Percent,
+                },
+                ..RecipeLine::grams("citric_acid", 0.0)
+            },
+            RecipeLine {
+                enabled: false,
+                ..RecipeLine::moles("sodium_chloride", 0.01)
+            },
+            RecipeLine {
+                amount: Amount {
+                    value: 0.9,
+                    unit: Unit::Kilogram,
+                },
+                ..RecipeLine::grams("water", 0.0)
+            },
+        ],
+        qs_to_g: None,
+    };
+    assert_eq!(project.recipe(), &expected);
+    let s = &project.settings;
+    assert_eq!(
+        (
+            s.temp_c,
+            s.activity,
+            s.adjuster.as_str(),
+            s.dose_max_g,
+            s.target_ph
+        ),
+        (20.0, ActivityModel::Davies, "citric_acid", 5.0, Some(10.5))
+    );
+    // Settings version 1 did not write keep their defaults.
+    assert_eq!(s.target_tolerance, Settings::default().target_tolerance);
+    // Loading never rewrites the file; saving writes version 2, which reads back the same.
+    assert_eq!(fs::read_to_string(&path).unwrap(), text);
+    let dir = tempfile::tempdir().unwrap();
+    let saved = dir.path().join("migrated.ron");
+    project.save(&saved).unwrap();
+    assert!(
+        fs::read_to_string(&saved)
+            .unwrap()
+            .contains("format_version: 2")
+    );
+    assert_eq!(Project::load(&saved).unwrap(), project);
+}
+
+#[test]
+fn variants_with_prices_read_back_the_same() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut project = Project::demo();
+    project
+        .variant_mut()
+        .prices
+        .insert("lactic_acid_88".into(), 2.4);
+    let copy = project.copy_current();
+    assert_eq!(copy, 1);
+    assert_eq!(project.variant().name, "Main (copy)");
+    project.rename_variant(1, "Less lactate").unwrap();
+    project.recipe_mut().lines[1].amount.value = 0.6;
+    project.copy_current();
+    assert_eq!(project.variants().len(), 3);
+    assert!(project.set_current(1));
+    let path = dir.path().join("variants.ron");
+    project.save(&path).unwrap();
+    let back = Project::load(&path).unwrap();
+    assert_eq!(back, project);
+    assert_eq!(back.variant().name, "Less lactate");
+    assert_eq!(back.variants()[1].prices.get("lactic_acid_88"), Some(&2.4));
+    assert_eq!(back.variant_index("Main"), Some(0));
+}
+
+#[test]
+fn variant_edits_keep_the_project_whole() {
+    let mut p = Project::demo();
+    assert!(p.remove_variant(0).is_err(), "the last variant stays");
+    p.copy_current();
+    assert!(p.rename_variant(1, "Main").unwrap_err().contains("already"));
+    assert!(p.rename_variant(1, "  ").is_err());
+    assert!(p.rename_variant(5, "X").is_err());
+    assert!(!p.set_current(2));
+    p.remove_variant(1).unwrap();
+    assert_eq!((p.variants().len(), p.current()), (1, 0));
+}
+
+#[test]
+fn broken_variant_files_say_what_is_wrong() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut p = Project::demo();
+    p.copy_current();
+    let two = p.to_ron().unwrap();
+    let cases = [
+        (
+            two.replace("name: \"Main (copy)\"", "name: \"Main\""),
+            "already a variant called 'Main'",
+        ),
+        (two.replace("current: 1", "current: 4"), "`current` is 4"),
+        (
+            two.replace("variants: [", "recipe: (lines: []), variants: ["),
+            "not in `recipe`",
+        ),
+        (
+            demo_text().replace("format_version: 2", "format_version: 1"),
+            "needs its `recipe`",
+        ),
+        (
+            two.replace("prices: {}", "prices: {\"water\": -1.0}"),
+            "price per kg of water -1 per kg is not allowed",
+        ),
+    ];
+    for (i, (text, expected)) in cases.iter().enumerate() {
+        let err = load_text(dir.path(), &format!("bad{i}.ron"), text.as_bytes()).unwrap_err();
+        assert!(err.to_string().contains(expected), "case {i}: {err}");
+    }
 }
 
 #[test]
@@ -92,7 +219,7 @@ fn deeply_nested_files_are_refused() {
 #[test]
 fn newer_format_versions_are_named() {
     let dir = tempfile::tempdir().unwrap();
-    let text = demo_text().replace("format_version: 1", "format_version: 7");
+    let text = demo_text().replace("format_version: 2", "format_version: 7");
     let err = load_text(dir.path(), "future.ron", text.as_bytes()).unwrap_err();
     assert!(err.to_string().contains("format version 7"), "{err}");
 }

@@ -31,6 +31,8 @@ pub enum Command {
     Tolerance(crate::tolerance::ToleranceArgs),
     /// Grams of an acid and a salt form of one system for a target pH and buffer capacity.
     Design(crate::design::DesignArgs),
+    /// The variants of one or more project files side by side: pH, capacity, cost, cautions.
+    Compare(crate::compare::CompareArgs),
 }
 
 /// The activity model named on the command line.
@@ -49,6 +51,9 @@ pub struct RecipeArgs {
     /// Read the recipe and settings from a project file saved by the workbench.
     #[arg(long, value_name = "FILE")]
     pub project: Option<PathBuf>,
+    /// The project's variant to solve, by name; default the project's current variant.
+    #[arg(long, value_name = "NAME", requires = "project")]
+    pub variant: Option<String>,
     /// Fill the batch with water to this total mass (q.s.), e.g. 1000g.
     #[arg(long, value_name = "MASS")]
     pub qs_to: Option<String>,

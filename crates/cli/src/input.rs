@@ -33,7 +33,25 @@ pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
             temp_c: project.settings.temp_c,
             activity: project.settings.activity,
         };
-        recipe = project.recipe;
+        let variant = match &args.variant {
+            None => project.variant(),
+            Some(name) => {
+                let i = project.variant_index(name).ok_or_else(|| {
+                    let names: Vec<String> = project
+                        .variants()
+                        .iter()
+                        .map(|v| format!("'{}'", v.name))
+                        .collect();
+                    anyhow!(
+                        "--variant: {} has no variant called '{name}'; its variants are {}",
+                        path.display(),
+                        names.join(", ")
+                    )
+                })?;
+                &project.variants()[i]
+            }
+        };
+        recipe = variant.recipe.clone();
     }
     for item in &args.items {
         let (id, amount) = parse_item(item)?;

@@ -3,6 +3,7 @@
 //! Exit codes: 0 success; 1 a problem with the input (message on stderr); 2 bad usage.
 
 mod args;
+mod compare;
 mod design;
 mod input;
 mod output;
@@ -34,5 +35,6 @@ fn run(cli: args::Cli) -> anyhow::Result<ExitCode> {
         args::Command::Sweep(a) => sweep::run(&a),
         args::Command::Tolerance(a) => tolerance::run(&a),
         args::Command::Design(a) => design::run(&a),
+        args::Command::Compare(a) => compare::run(&a),
     }
 }

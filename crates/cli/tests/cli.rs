@@ -371,7 +371,7 @@ fn projects_open_through_the_checked_loader() {
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("typo.ron");
     let mut p = Project::demo();
-    p.recipe.lines[0].ingredient = "lactic_acd_88".into();
+    p.recipe_mut().lines[0].ingredient = "lactic_acd_88".into();
     p.save(&path).unwrap();
     let err = fails(&["ph", "--project", path.to_str().unwrap()]);
     assert!(err.contains("unknown ingredient 'lactic_acd_88'"), "{err}");

@@ -38,7 +38,7 @@ pub fn recipe_panel_ui(
             lines_ui(ui, project, engine, library, &mut panels.refused, commands);
             ui.add_space(6.0);
             batch_ui(ui, project, engine, &mut panels.refused, commands);
-            let empty = project.recipe.lines.is_empty();
+            let empty = project.recipe().lines.is_empty();
             if let (Some(Err(e)), false) = (engine.report(), empty) {
                 ui.add_space(4.0);
                 ui.colored_label(super::ERROR, format!("The recipe cannot be solved: {e}"));
@@ -48,7 +48,7 @@ pub fn recipe_panel_ui(
                 reasons_ui(ui, project, engine, library);
             }
             ui.add_space(8.0);
-            let in_percent = project.recipe.qs_to_g.is_some();
+            let in_percent = project.recipe().qs_to_g.is_some();
             picker_ui(ui, in_percent, library, &mut panels.picker_query, commands);
             ui.add_space(8.0);
             super::custom_ingredient::custom_ingredient_ui(
@@ -69,7 +69,7 @@ fn lines_ui(
     commands: &mut Vec<Command>,
 ) {
     let report = engine.solved();
-    let n = project.recipe.lines.len();
+    let n = project.recipe().lines.len();
     if n == 0 {
         ui.label(
             RichText::new("The recipe is empty. Add an ingredient from the library below: search by name, then click it.")
@@ -99,7 +99,7 @@ fn lines_ui(
                         ui.label(RichText::new(h).strong());
                     }
                     ui.end_row();
-                    for (i, line) in project.recipe.lines.iter_mut().enumerate() {
+                    for (i, line) in project.recipe_mut().lines.iter_mut().enumerate() {
                         let row = i + 1;
                         let entry = library.entry_index(&line.ingredient);
                         let mut enabled = line.enabled;
@@ -259,11 +259,11 @@ fn batch_ui(
 ) {
     let report = engine.solved();
     ui.horizontal_wrapped(|ui| {
-        let mut qs = project.recipe.qs_to_g.is_some();
+        let mut qs = project.recipe().qs_to_g.is_some();
         if ui.checkbox(&mut qs, "Water q.s. to a batch of").changed() {
             commands.push(Command::Edit(RecipeEdit::SetQs(qs)));
         }
-        if let Some(size) = project.recipe.qs_to_g.as_mut() {
+        if let Some(size) = project.recipe_mut().qs_to_g.as_mut() {
             let speed = (*size * 0.002).max(0.1);
             checked_drag(
                 ui,
@@ -313,7 +313,7 @@ fn reasons_ui(ui: &mut Ui, project: &Project, engine: &Engine, library: &Library
     egui::CollapsingHeader::new("What each line does to pH")
         .default_open(true)
         .show(ui, |ui| {
-            for (i, line) in project.recipe.lines.iter().enumerate() {
+            for (i, line) in project.recipe().lines.iter().enumerate() {
                 let Some(effect) = engine.effects().get(i).and_then(Option::as_ref) else {
                     continue;
                 };

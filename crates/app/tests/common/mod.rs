@@ -45,17 +45,15 @@ pub fn harness_in(project: Project, folders: &Folders) -> Harness<'static, Workb
 
 /// A bench recipe of ingredients every library has: water and citric acid.
 pub fn citric_project() -> Project {
-    Project {
-        name: "Citric rinse".into(),
-        recipe: Recipe {
-            lines: vec![
-                RecipeLine::grams("water", 900.0),
-                RecipeLine::grams("citric_acid_monohydrate", 10.0),
-            ],
-            qs_to_g: None,
-        },
-        ..Project::default()
-    }
+    let mut p = Project::with_recipe(Recipe {
+        lines: vec![
+            RecipeLine::grams("water", 900.0),
+            RecipeLine::grams("citric_acid_monohydrate", 10.0),
+        ],
+        qs_to_g: None,
+    });
+    p.name = "Citric rinse".into();
+    p
 }
 
 /// Focuses the field named `label`, replaces its text with `text` and presses Enter.
