@@ -18,6 +18,7 @@ use saltwise_chem::drift::{self, Drift};
 use saltwise_chem::explain::{self, IngredientEffect};
 use saltwise_chem::hazard::{self, Caution};
 use saltwise_chem::sweep;
+use saltwise_chem::variant::{self, Summary, Variant};
 
 /// Points on the dose curve.
 const CURVE_POINTS: usize = 161;
@@ -86,6 +87,15 @@ pub struct Sweeps {
     pub temperature: Vec<PlotPoint>,
 }
 
+/// One variant's row of the comparison, with its dose curve for the overlay.
+#[derive(Debug, Clone, PartialEq)]
+pub struct VariantRow {
+    /// The variant's figures, or why it could not be solved.
+    pub summary: Result<Summary, String>,
+    /// (dose g, pH) of the project's adjuster on this variant, or why there is none.
+    pub curve: Result<Vec<PlotPoint>, String>,
+}
+
 /// The solved recipe and what follows directly from it.
 #[derive(Debug, Clone, PartialEq)]
 struct Solved {
@@ -125,6 +135,8 @@ pub struct Engine {
     cautions: Option<(String, Vec<Caution>)>,
     curve: Option<(CurveKey, Result<CurveData, String>)>,
     species: Option<(Option<String>, Option<SpeciesData>)>,
+    /// Each variant with the curve settings its row was made for; emptied with the constants.
+    variants: Vec<(Variant, CurveKey, VariantRow)>,
     solves: u64,
 }
 
@@ -145,6 +157,7 @@ impl Engine {
             cautions: None,
             curve: None,
             species: None,
+            variants: Vec::new(),
             solves: 0,
         }
     }
@@ -202,6 +215,11 @@ impl Engine {
         self.species.as_ref().and_then(|(_, s)| s.as_ref())
     }
 
+    /// One row per variant of the project, in its order, for the comparison.
+    pub fn variant_rows(&self) -> impl Iterator<Item = &VariantRow> {
+        self.variants.iter().map(|(_, _, row)| row)
+    }
+
     /// pKw at the project's conditions (14 until something is solved).
     pub fn pkw(&self) -> f64 {
         self.constants().map_or(14.0, Constants::pkw)
@@ -242,6 +260,12 @@ impl Engine {
                 .species
                 .as_ref()
                 .is_some_and(|(k, _)| *k == s.species_system)
+            && self.variants.len() == project.variants().len()
+            && self
+                .variants
+                .iter()
+                .zip(project.variants())
+                .all(|((v, k, _), p)| v == p && *k == CurveKey::of(s))
     }
 
     /// Recomputes whatever is stale for this project; returns whether anything was.
@@ -275,6 +299,7 @@ impl Engine {
                 .map_err(|e| e.to_string());
             self.constants = Some((conditions, constants));
             self.solved = None;
+            self.variants.clear();
         }
         let Some((_, constants)) = &self.constants else {
             return self.solves != before;
@@ -287,7 +312,7 @@ impl Engine {
             self.solves += 1;
             let solved = match constants {
                 Ok(constants) => {
-                    let result = report::evaluate_with(library, constants, &project.recipe())
+                    let result = report::evaluate_with(library, constants, project.recipe())
                         .map_err(|e| e.to_string());
                     let drift = result.as_ref().ok().map(|r| {
                         drift::drift(library, constants, &r.batch, &r.composition, &r.solution)
@@ -297,7 +322,7 @@ impl Engine {
                     Solved {
                         result,
                         sweeps,
-                        effects: effects(library, constants, &project.recipe()),
+                        effects: effects(library, constants, project.recipe()),
                         drift,
                     }
                 }
@@ -350,7 +375,44 @@ impl Engine {
             };
             self.species = Some((s.species_system.clone(), data));
         }
+        self.refresh_variants(project);
         self.solves != before
+    }
+
+    /// Solves the variants that changed since their rows were made; keeps the others.
+    fn refresh_variants(&mut self, project: &Project) {
+        let key = CurveKey::of(&project.settings);
+        let unchanged = self.variants.len() == project.variants().len()
+            && self
+                .variants
+                .iter()
+                .zip(project.variants())
+                .all(|((v, k, _), p)| v == p && *k == key);
+        if unchanged {
+            return;
+        }
+        let (Some((_, Ok(library))), Some((_, constants))) = (&self.library, &self.constants)
+        else {
+            return;
+        };
+        let mut old = std::mem::take(&mut self.variants);
+        for v in project.variants() {
+            let kept = old.iter().position(|(ov, ok, _)| ov == v && *ok == key);
+            let row = match kept {
+                Some(i) => old.swap_remove(i).2,
+                None => {
+                    self.solves += 1;
+                    match constants {
+                        Ok(c) => variant_row(library, c, v, &key),
+                        Err(e) => VariantRow {
+                            summary: Err(e.clone()),
+                            curve: Err(e.clone()),
+                        },
+                    }
+                }
+            };
+            self.variants.push((v.clone(), key.clone(), row));
+        }
     }
 
     /// Every result says why when the library itself could not be built.
@@ -380,8 +442,19 @@ impl Engine {
             },
         ));
         self.cautions = Some((s.adjuster.clone(), Vec::new()));
-        self.curve = Some((CurveKey::of(s), Err(why)));
+        self.curve = Some((CurveKey::of(s), Err(why.clone())));
         self.species = Some((s.species_system.clone(), None));
+        self.variants = project
+            .variants()
+            .iter()
+            .map(|v| {
+                let row = VariantRow {
+                    summary: Err(why.clone()),
+                    curve: Err(why.clone()),
+                };
+                (v.clone(), CurveKey::of(s), row)
+            })
+            .collect();
         true
     }
 
@@ -422,6 +495,33 @@ fn effects(
                 .map(|e| explain::explain_ingredient(library, constants, e))
         })
         .collect()
+}
+
+/// One variant solved at the project's conditions, with its dose curve.
+fn variant_row(
+    library: &Library,
+    constants: &Constants,
+    v: &Variant,
+    key: &CurveKey,
+) -> VariantRow {
+    let summary =
+        variant::summarise(library, constants, v, Some(&key.adjuster)).map_err(|e| e.to_string());
+    let curve = report::evaluate_with(library, constants, &v.recipe)
+        .map_err(|e| e.to_string())
+        .and_then(|r| {
+            if !(key.dose_max_g.is_finite() && key.dose_max_g > 0.0) {
+                return Err(format!("largest dose {} g must be above 0", key.dose_max_g));
+            }
+            let doser = Doser::new(library, constants, &r.batch, &key.adjuster)
+                .map_err(|e| e.to_string())?;
+            Ok(doser
+                .curve(key.dose_max_g, CURVE_POINTS)
+                .points
+                .iter()
+                .map(|p| PlotPoint::new(p.dose_g, p.ph))
+                .collect())
+        });
+    VariantRow { summary, curve }
 }
 
 fn sweeps(library: &Library, constants: &Constants, report: &Report) -> Result<Sweeps, String> {

@@ -31,7 +31,7 @@ fn expected_ph(project: &Project) -> f64 {
         temp_c: project.settings.temp_c,
         activity: project.settings.activity,
     };
-    report::evaluate(&library, &project.recipe(), conditions)
+    report::evaluate(&library, project.recipe(), conditions)
         .unwrap()
         .solution
         .ph

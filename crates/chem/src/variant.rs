@@ -129,7 +129,7 @@ pub struct Summary {
     pub name: String,
     /// pH (activity scale).
     pub ph: f64,
-    /// p[H]: −log10 of the hydrogen-ion molality.
+    /// p\[H\]: −log10 of the hydrogen-ion molality.
     pub p_h_conc: f64,
     /// Buffer capacity at the product pH, mol/kg water per pH.
     pub buffer_capacity: f64,

@@ -1,5 +1,9 @@
 //! Black-box tests of `saltwise-cli compare` and `ph --project FILE --variant NAME`: one row
 //! per variant of every file, agreeing with `ph`, costs from the variants' prices.
+#![expect(
+    clippy::unwrap_used,
+    reason = "tests fail loudly on a missing file or value"
+)]
 
 mod common;
 
