@@ -202,7 +202,7 @@ impl Project {
     }
 
     /// Removes variant `index`, refusing to remove the last one; the current variant stays
-    /// current (the one before it when it is the one removed).
+    /// current (when it is the one removed, the variant that takes its place, or the last).
     pub fn remove_variant(&mut self, index: usize) -> Result<(), String> {
         if self.variants.len() <= 1 {
             return Err("a project keeps at least one variant".into());
