@@ -260,12 +260,18 @@ impl Engine {
                 .species
                 .as_ref()
                 .is_some_and(|(k, _)| *k == s.species_system)
-            && self.variants.len() == project.variants().len()
+            && self.variants_current(project)
+    }
+
+    /// Whether there is a row for every variant, made from it as it is now.
+    fn variants_current(&self, project: &Project) -> bool {
+        let key = CurveKey::of(&project.settings);
+        self.variants.len() == project.variants().len()
             && self
                 .variants
                 .iter()
                 .zip(project.variants())
-                .all(|((v, k, _), p)| v == p && *k == CurveKey::of(s))
+                .all(|((v, k, _), p)| v == p && *k == key)
     }
 
     /// Recomputes whatever is stale for this project; returns whether anything was.
@@ -381,16 +387,10 @@ impl Engine {
 
     /// Solves the variants that changed since their rows were made; keeps the others.
     fn refresh_variants(&mut self, project: &Project) {
-        let key = CurveKey::of(&project.settings);
-        let unchanged = self.variants.len() == project.variants().len()
-            && self
-                .variants
-                .iter()
-                .zip(project.variants())
-                .all(|((v, k, _), p)| v == p && *k == key);
-        if unchanged {
+        if self.variants_current(project) {
             return;
         }
+        let key = CurveKey::of(&project.settings);
         let (Some((_, Ok(library))), Some((_, constants))) = (&self.library, &self.constants)
         else {
             return;
@@ -497,30 +497,39 @@ fn effects(
         .collect()
 }
 
-/// One variant solved at the project's conditions, with its dose curve.
+/// One variant solved once at the project's conditions: its row and its dose curve.
 fn variant_row(
     library: &Library,
     constants: &Constants,
     v: &Variant,
     key: &CurveKey,
 ) -> VariantRow {
-    let summary =
-        variant::summarise(library, constants, v, Some(&key.adjuster)).map_err(|e| e.to_string());
-    let curve = report::evaluate_with(library, constants, &v.recipe)
-        .map_err(|e| e.to_string())
-        .and_then(|r| {
-            if !(key.dose_max_g.is_finite() && key.dose_max_g > 0.0) {
-                return Err(format!("largest dose {} g must be above 0", key.dose_max_g));
-            }
-            let doser = Doser::new(library, constants, &r.batch, &key.adjuster)
-                .map_err(|e| e.to_string())?;
-            Ok(doser
-                .curve(key.dose_max_g, CURVE_POINTS)
-                .points
-                .iter()
-                .map(|p| PlotPoint::new(p.dose_g, p.ph))
-                .collect())
-        });
+    let report = match report::evaluate_with(library, constants, &v.recipe) {
+        Ok(r) => r,
+        Err(e) => {
+            return VariantRow {
+                summary: Err(e.to_string()),
+                curve: Err(e.to_string()),
+            };
+        }
+    };
+    let summary = Ok(variant::summary_of(
+        library,
+        constants,
+        v,
+        &report,
+        Some(&key.adjuster),
+    ));
+    let curve = curve_data(
+        library,
+        constants,
+        &report,
+        &CurveKey {
+            target_ph: None,
+            ..key.clone()
+        },
+    )
+    .map(|c| c.ph_points);
     VariantRow { summary, curve }
 }
 
@@ -661,4 +670,45 @@ fn species_data(
         dominant: state.dominant_form(),
         active: drift::default_active_form(state),
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn variant_rows_follow_the_variants_and_only_a_changed_one_is_solved_again() {
+        let mut project = Project::demo();
+        project.copy_current();
+        project.recipe_mut().lines[1].amount.value = 2.0;
+        let mut engine = Engine::new();
+        engine.refresh(&project);
+        let ph = |e: &Engine| -> Vec<f64> {
+            e.variant_rows()
+                .map(|r| r.summary.as_ref().map_or(f64::NAN, |s| s.ph))
+                .collect()
+        };
+        let first = ph(&engine);
+        assert_eq!(first.len(), 2);
+        // More sodium lactate in the copy: a higher pH (the lactate buffer's salt form).
+        assert!(first[1] > first[0], "{first:?}");
+        // The current variant's row is the same solve as the readout.
+        let readout = engine.solved().map(|r| r.solution.ph);
+        assert_eq!(readout, Some(first[1]));
+        assert!(
+            engine
+                .variant_rows()
+                .all(|r| r.curve.as_ref().is_ok_and(|c| !c.is_empty()))
+        );
+        // Editing the current variant solves again that one row (and the readout), not the other.
+        let before = engine.solve_count();
+        project.recipe_mut().lines[1].amount.value = 1.5;
+        engine.refresh(&project);
+        assert!(engine.is_current(&project));
+        let after = ph(&engine);
+        assert_eq!(after[0], first[0]);
+        assert!(after[1] < first[1]);
+        // The readout, the dose curve, the species chart and the one changed variant.
+        assert_eq!(engine.solve_count() - before, 4);
+    }
 }

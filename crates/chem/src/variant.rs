@@ -9,7 +9,7 @@ use crate::error::RecipeError;
 use crate::hazard::{self, DEFER_TITLE};
 use crate::library::{Library, ResolvedRelease};
 use crate::recipe::{Batch, Recipe};
-use crate::report::evaluate_with;
+use crate::report::{Report, evaluate_with};
 use crate::solver::Constants;
 
 /// The ingredient id counted free of charge unless the user prices it (q.s. water too).
@@ -155,10 +155,21 @@ pub fn summarise(
     adjuster: Option<&str>,
 ) -> Result<Summary, RecipeError> {
     let report = evaluate_with(library, constants, &variant.recipe)?;
+    Ok(summary_of(library, constants, variant, &report, adjuster))
+}
+
+/// A variant's row of the table from its report, already solved at the project's conditions.
+pub fn summary_of(
+    library: &Library,
+    constants: &Constants,
+    variant: &Variant,
+    report: &Report,
+    adjuster: Option<&str>,
+) -> Summary {
     let s = &report.solution;
     let cautions = hazard::assemble(library, constants, &report.batch, Some(s), adjuster);
     let (cost, missing) = cost_per_kg(library, variant, &report.batch);
-    Ok(Summary {
+    Summary {
         name: variant.name.clone(),
         ph: s.ph,
         p_h_conc: s.p_h_conc,
@@ -172,8 +183,8 @@ pub fn summarise(
             .filter(|c| c.title != DEFER_TITLE)
             .map(|c| c.title.clone())
             .collect(),
-        warnings: report.warnings,
-    })
+        warnings: report.warnings.clone(),
+    }
 }
 
 #[cfg(test)]
