@@ -229,10 +229,21 @@ pub fn default_active_form(state: &SystemState) -> usize {
 
 /// The fraction of each system in its default active form (see [`default_active_form`]).
 pub fn active_forms(systems: &[SystemState]) -> Vec<ActiveForm> {
+    active_forms_chosen(systems, |_| None)
+}
+
+/// The fraction of each system in the form `chosen` gives for its library index, or in its
+/// default active form where `chosen` gives none or a form the system does not have.
+pub fn active_forms_chosen(
+    systems: &[SystemState],
+    chosen: impl Fn(usize) -> Option<usize>,
+) -> Vec<ActiveForm> {
     systems
         .iter()
         .map(|st| {
-            let form = default_active_form(st);
+            let form = chosen(st.system)
+                .filter(|&f| f < st.fractions.len())
+                .unwrap_or_else(|| default_active_form(st));
             ActiveForm {
                 system: st.system,
                 form,

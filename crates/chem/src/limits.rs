@@ -113,8 +113,18 @@ pub const PRICE_PER_KG: Limit = Limit {
     rule: "a price is from 0 to 1 000 000 per kg, in any one currency",
 };
 
+/// A weighing tolerance, ± % of a line's amount.
+pub const WEIGHING_TOLERANCE: Limit = Limit {
+    what: "weighing tolerance",
+    min: 0.0,
+    min_inclusive: true,
+    max: 50.0,
+    unit: "%",
+    rule: "a weighing tolerance is from 0 to 50 % either side of the amount",
+};
+
 /// Every limit, for listing and tests.
-pub const ALL: [Limit; 9] = [
+pub const ALL: [Limit; 10] = [
     AMOUNT,
     BATCH_G,
     TEMPERATURE_C,
@@ -124,6 +134,7 @@ pub const ALL: [Limit; 9] = [
     PKA,
     ASSAY,
     PRICE_PER_KG,
+    WEIGHING_TOLERANCE,
 ];
 
 impl Limit {

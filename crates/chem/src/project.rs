@@ -4,6 +4,7 @@
 //! Chem's only file I/O: loading with size and nesting limits, and atomic saving, so the window
 //! and the command line share one tested path.
 
+use std::collections::BTreeMap;
 use std::fs;
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -16,6 +17,7 @@ use crate::library::{Library, LibraryData};
 use crate::limits;
 use crate::recipe::{Recipe, RecipeLine};
 use crate::solver::ActivityModel;
+use crate::tolerance::{MAX_SAMPLES, Tolerances};
 use crate::variant::{self, Variant};
 
 /// The format version this build writes.
@@ -45,7 +47,19 @@ pub struct Settings {
     pub target_tolerance: f64,
     /// System id shown on the species chart, if chosen.
     pub species_system: Option<String>,
+    /// Weighing tolerances and assay ranges for the pH band (none set: no band).
+    pub tolerances: Tolerances,
+    /// Samples drawn for the pH band.
+    pub band_samples: usize,
+    /// Seed of the pH band's draws (the same seed gives the same band).
+    pub band_seed: u64,
+    /// The active form chosen per system id (protons removed from the fully protonated form);
+    /// systems not listed use their uncharged form, else the fully protonated one.
+    pub active_forms: BTreeMap<String, usize>,
 }
+
+/// Samples of the pH band unless the project says otherwise.
+pub const DEFAULT_BAND_SAMPLES: usize = 1000;
 
 impl Default for Settings {
     fn default() -> Self {
@@ -57,6 +71,10 @@ impl Default for Settings {
             target_ph: None,
             target_tolerance: 0.1,
             species_system: None,
+            tolerances: Tolerances::default(),
+            band_samples: DEFAULT_BAND_SAMPLES,
+            band_seed: 1,
+            active_forms: BTreeMap::new(),
         }
     }
 }
@@ -368,6 +386,31 @@ impl Project {
             limits::TARGET_PH.check(t).map_err(bad)?;
         }
         limits::BAND.check(s.target_tolerance).map_err(bad)?;
+        let t = &s.tolerances;
+        limits::WEIGHING_TOLERANCE
+            .check_as(t.all_percent, "weighing tolerance of every line")
+            .map_err(bad)?;
+        for (id, p) in &t.per_ingredient {
+            let what = format!("weighing tolerance of {id}");
+            limits::WEIGHING_TOLERANCE.check_as(*p, &what).map_err(bad)?;
+        }
+        for (id, lo, hi) in &t.assay {
+            for (end, v) in [("low", lo), ("high", hi)] {
+                let what = format!("{end} end of the assay range of {id}");
+                limits::ASSAY.check_as(*v, &what).map_err(bad)?;
+            }
+            if lo > hi {
+                return Err(invalid(format!(
+                    "the assay range of {id} runs from {lo} down to {hi}: give the low end first"
+                )));
+            }
+        }
+        if s.band_samples == 0 || s.band_samples > MAX_SAMPLES {
+            return Err(invalid(format!(
+                "band_samples {} is not allowed: give 1 to {MAX_SAMPLES}",
+                s.band_samples
+            )));
+        }
         Ok(())
     }
 

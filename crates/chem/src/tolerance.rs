@@ -16,6 +16,7 @@
 //! Samples are built from per-line totals per mol of substance, so no recipe is re-resolved
 //! and no library is copied; each solve starts from the nominal state.
 
+use serde::{Deserialize, Serialize};
 use thiserror::Error;
 
 use crate::formula::WATER_MOLAR_MASS_G_PER_MOL;
@@ -71,7 +72,8 @@ pub enum ToleranceError {
 pub const MAX_SAMPLES: usize = 1_000_000;
 
 /// What varies: weighing tolerances (± %) and assay ranges (fractions).
-#[derive(Debug, Clone, Default, PartialEq)]
+#[derive(Debug, Clone, Default, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
 pub struct Tolerances {
     /// Tolerance (± %) for every line not named in `per_ingredient`.
     pub all_percent: f64,
@@ -114,7 +116,7 @@ pub struct Band {
 }
 
 /// A small deterministic generator: SplitMix64 (Steele, Lea & Flood 2014, from memory).
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, PartialEq, Eq)]
 pub struct SplitMix64(u64);
 
 impl SplitMix64 {
@@ -341,38 +343,87 @@ impl<'a> Perturber<'a> {
 
     /// The pH band from `samples` seeded draws, with the sensitivity ranking.
     pub fn band(&self, samples: usize, seed: u64) -> Result<Band, ToleranceError> {
-        if samples == 0 || samples > MAX_SAMPLES {
-            return Err(ToleranceError::Samples { samples });
-        }
-        let mut rng = SplitMix64::new(seed);
+        let mut run = BandRun::new(samples, seed)?;
+        self.advance(&mut run, samples);
+        Ok(self.finish(run))
+    }
+
+    /// Draws up to `count` more samples of `run` (fewer when it is nearly done).
+    pub fn advance(&self, run: &mut BandRun, count: usize) {
         let mut delta = vec![0.0; self.lines.len()];
         let mut assays = vec![0.0; self.assay_ranges.len()];
-        let mut ph = Vec::with_capacity(samples);
-        let mut not_converged = 0;
-        for _ in 0..samples {
+        let todo = count.min(run.samples - run.ph.len());
+        for _ in 0..todo {
             for (d, l) in delta.iter_mut().zip(&self.lines) {
-                *d = l.tolerance * (2.0 * rng.next_f64() - 1.0);
+                *d = l.tolerance * (2.0 * run.rng.next_f64() - 1.0);
             }
             for (a, &(lo, hi)) in assays.iter_mut().zip(&self.assay_ranges) {
-                *a = lo + (hi - lo) * rng.next_f64();
+                *a = lo + (hi - lo) * run.rng.next_f64();
             }
             let s = self.solve(&delta, &assays);
             if !s.converged() {
-                not_converged += 1;
+                run.not_converged += 1;
             }
-            ph.push(s.ph);
+            run.ph.push(s.ph);
         }
+    }
+
+    /// The band from a run's samples (all of them drawn or not), with the sensitivity ranking.
+    pub fn finish(&self, run: BandRun) -> Band {
+        let mut ph = run.ph;
         ph.sort_by(f64::total_cmp);
-        Ok(Band {
+        Band {
             nominal_ph: self.nominal.ph,
             p05: percentile(&ph, 0.05),
             p50: percentile(&ph, 0.50),
             p95: percentile(&ph, 0.95),
+            samples: ph.len(),
+            seed: run.seed,
+            sensitivity: self.sensitivity(),
+            not_converged: run.not_converged,
+        }
+    }
+}
+
+/// A Monte Carlo band being drawn a part at a time (so a window can show progress): the same
+/// seed gives the same samples however the drawing is split.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BandRun {
+    rng: SplitMix64,
+    samples: usize,
+    seed: u64,
+    ph: Vec<f64>,
+    not_converged: usize,
+}
+
+impl BandRun {
+    /// A run of `samples` draws from `seed`, none drawn yet.
+    pub fn new(samples: usize, seed: u64) -> Result<Self, ToleranceError> {
+        if samples == 0 || samples > MAX_SAMPLES {
+            return Err(ToleranceError::Samples { samples });
+        }
+        Ok(Self {
+            rng: SplitMix64::new(seed),
             samples,
             seed,
-            sensitivity: self.sensitivity(),
-            not_converged,
+            ph: Vec::with_capacity(samples),
+            not_converged: 0,
         })
+    }
+
+    /// Samples drawn so far.
+    pub fn drawn(&self) -> usize {
+        self.ph.len()
+    }
+
+    /// Samples asked for.
+    pub fn samples(&self) -> usize {
+        self.samples
+    }
+
+    /// Whether every sample has been drawn.
+    pub fn is_done(&self) -> bool {
+        self.ph.len() >= self.samples
     }
 }
 
