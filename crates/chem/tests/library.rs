@@ -616,3 +616,23 @@ fn each_step_is_brought_to_zero_ionic_strength_from_its_own() {
     // And the two ionic strengths really differ in effect (so the check above means something).
     assert!((ka("all_1")[0] / ka("all_01")[0] - 1.0).abs() > 1e-3);
 }
+
+#[test]
+fn corrected_constants_and_their_enthalpies() {
+    let lib = Library::built_in().unwrap();
+    let sys = |id: &str| lib.systems()[lib.system_index(id).unwrap()].clone();
+    // Fitch et al., Protein Science 24 (2015) 752 (from memory): guanidinium pKa 13.8.
+    assert_eq!(sys("arginine").pka[2], 13.8);
+    // Amine step's ΔH° as glycine's: Goldberg, Kishore & Lennen 2002 (from memory), 44.2 kJ/mol.
+    assert_eq!(sys("arginine").dh_kj_mol[1], sys("glycine").dh_kj_mol[1]);
+    // Martell & Smith, Critical Stability Constants (from memory): malic acid 3.46, 5.10 at I = 0.
+    assert_eq!(sys("malic").pka, [3.46, 5.10]);
+    // Published ΔH° (sources in the library): none of these is left at 0 any more.
+    assert!(sys("silicic").dh_kj_mol.iter().all(|&h| h > 0.0));
+    assert!(sys("zinc").dh_kj_mol[0] > 0.0);
+    assert!(sys("iron_iii").dh_kj_mol.iter().all(|&h| h > 0.0));
+    assert!(sys("salicylic").dh_kj_mol[0] > 0.0);
+    // Tartaric and phthalic acids carry ΔCp° for every step (NBS fits, from memory).
+    assert_eq!(sys("tartaric").dcp_j_mol_k.len(), 2);
+    assert_eq!(sys("phthalic").dcp_j_mol_k.len(), 2);
+}
