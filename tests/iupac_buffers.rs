@@ -10,6 +10,9 @@ const PHOSPHATE: &[(&str, f64)] = &[
     ("disodium_hydrogen_phosphate", 0.025),
 ];
 const BORAX: &[(&str, f64)] = &[("borax", 0.01)];
+/// Potassium hydrogen tartrate saturated at 25 °C: 0.0341 mol/kg (Bates, Determination of pH,
+/// 2nd ed., Wiley 1973, from memory); the standard keeps that composition when warmed.
+const TARTRATE: &[(&str, f64)] = &[("potassium_hydrogen_tartrate", 0.0341)];
 
 #[test]
 fn potassium_hydrogen_phthalate_at_25_c() {
@@ -69,4 +72,21 @@ fn without_activities_the_buffers_miss() {
     // al. 2002, from memory) by well over 0.06 (the activity correction is ≈ 0.1 at I ≈ 0.1).
     let ideal = ph(PHOSPHATE, 25.0, saltwise_chem::ActivityModel::Ideal);
     assert!((ideal - 6.865).abs() > 0.06, "ideal phosphate {ideal}");
+}
+
+#[test]
+fn potassium_hydrogen_phthalate_at_50_c() {
+    // Buck 2002 (from memory): pH(S) 4.061 at 50 °C. Needs the ΔCp° of phthalic acid (Hamer,
+    // Pinching & Acree 1945/1946, from memory); without it the model reads about 4.036. Tolerance
+    // 0.03: the constant-ΔCp° van 't Hoff form and Davies at 50 °C.
+    assert_close("KHP 0.05 mol/kg, 50 °C", ph(KHP, 50.0, Davies), 4.061, 0.03);
+}
+
+#[test]
+fn saturated_potassium_hydrogen_tartrate_at_25_and_50_c() {
+    // Buck 2002 (from memory): pH(S) 3.557 at 25 °C and 3.549 at 50 °C. The 50 °C value needs the
+    // ΔCp° of tartaric acid (Bates & Canham 1951, from memory); without it the model reads about
+    // 3.521. The constants are valid to 50 °C, the top of those measurements.
+    assert_close("tartrate, 25 °C", ph(TARTRATE, 25.0, Davies), 3.557, 0.02);
+    assert_close("tartrate, 50 °C", ph(TARTRATE, 50.0, Davies), 3.549, 0.03);
 }

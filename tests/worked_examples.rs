@@ -160,6 +160,8 @@ fn the_salt_rule_explains_each_salt() {
 fn edta_near_its_measurement_ionic_strength() {
     // Martell & Smith constants at I = 0.1 (as printed in Harris, from memory): at I ≈ 0.1 the
     // computed p[H] must match a solve with those concentration constants used directly, ±0.05.
+    // The first step (pKa 0.0) is from I = 1 in the library; brought to I = 0.1 it moves by about
+    // 0.01, which at this p[H] (about 4.4) changes nothing, so 0.0 stands for it here.
     let r = solve(
         &[("disodium_edta_dihydrate", 0.01), ("sodium_chloride", 0.07)],
         25.0,

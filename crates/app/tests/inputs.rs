@@ -209,6 +209,7 @@ fn an_assay_above_100_percent_is_refused_with_the_reason_instead_of_a_ph() {
             dh_kj_mol: vec![0.0],
             dcp_j_mol_k: Vec::new(),
             pka_ionic_strength: 0.0,
+            pka_ionic_strengths: Vec::new(),
             source: "invented".into(),
         }],
         ions: Vec::new(),

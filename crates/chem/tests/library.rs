@@ -200,6 +200,7 @@ fn acetic() -> System {
         dh_kj_mol: vec![-0.41],
         dcp_j_mol_k: vec![],
         pka_ionic_strength: 0.0,
+        pka_ionic_strengths: Vec::new(),
         source: "Goldberg, Kishore & Lennen 2002 (from memory)".into(),
     }
 }
@@ -527,4 +528,111 @@ fn constants_of_the_check_table() {
     let edta = &lib.systems()[lib.system_index("edta").unwrap()];
     assert_eq!(edta.pka.len(), 6);
     assert!((edta.pka_ionic_strength - 0.1).abs() < 1e-12);
+    // Martell & Smith as printed in Harris (from memory): the first step at I = 1, the rest at 0.1.
+    assert_eq!(edta.ionic_strength_of_step(0), 1.0);
+    assert!((1..6).all(|k| edta.ionic_strength_of_step(k) == 0.1));
+}
+
+#[test]
+fn per_step_ionic_strengths_are_optional_and_checked() {
+    // A library file written before per-step ionic strengths existed still loads, every step at
+    // the system's one ionic strength.
+    let old = r#"(
+        ions: [(id: "hydron", symbol: "H+", charge: 1), (id: "hydroxide", symbol: "OH-", charge: -1)],
+        systems: [(id: "di", name: "a diprotic acid", charge_of_fully_protonated: 0,
+                   pka: [3.0, 6.0], dh_kj_mol: [0.0, 0.0], pka_ionic_strength: 0.1,
+                   source: "invented")],
+    )"#;
+    let lib = Library::from_ron(old, "old.ron").unwrap();
+    let s = &lib.systems()[0];
+    assert!(s.pka_ionic_strengths.is_empty());
+    assert_eq!(s.ionic_strength_of_step(0), 0.1);
+    assert_eq!(s.ionic_strength_of_step(1), 0.1);
+    // One ionic strength per step overrides the system's.
+    let new = old.replace(
+        "pka_ionic_strength: 0.1,",
+        "pka_ionic_strength: 0.1, pka_ionic_strengths: [1.0, 0.1],",
+    );
+    let lib = Library::from_ron(&new, "new.ron").unwrap();
+    let s = &lib.systems()[0];
+    assert_eq!(s.ionic_strength_of_step(0), 1.0);
+    assert_eq!(s.ionic_strength_of_step(1), 0.1);
+    // A list that is not one per step, or out of range, is refused.
+    let mut d = small();
+    d.systems[0].pka_ionic_strengths = vec![0.1, 0.1];
+    says(
+        &refusal(d),
+        &[
+            "system 'acetic'",
+            "1 pKa values but 2 pka_ionic_strengths",
+            "one per step",
+        ],
+    );
+    for bad in [-0.1, 6.0, f64::NAN] {
+        let mut d = small();
+        d.systems[0].pka_ionic_strengths = vec![bad];
+        says(
+            &refusal(d),
+            &["pka_ionic_strengths", "between 0 and 5 mol/kg"],
+        );
+    }
+}
+
+#[test]
+fn each_step_is_brought_to_zero_ionic_strength_from_its_own() {
+    use saltwise_chem::{ActivityModel, Conditions, Constants};
+    // A diprotic system with its steps measured at I = 1 and I = 0.1 must give, step by step,
+    // the thermodynamic constants of the same system measured wholly at I = 1 or wholly at 0.1.
+    let system = |id: &str, scalar: f64, per_step: Vec<f64>| System {
+        id: id.into(),
+        name: id.into(),
+        charge_of_fully_protonated: 0,
+        forms: vec![],
+        pka: vec![3.0, 6.0],
+        dh_kj_mol: vec![0.0, 0.0],
+        dcp_j_mol_k: vec![],
+        pka_ionic_strength: scalar,
+        pka_ionic_strengths: per_step,
+        source: "invented".into(),
+    };
+    let mut d = small();
+    d.systems = vec![
+        system("mixed", 0.0, vec![1.0, 0.1]),
+        system("all_1", 1.0, vec![]),
+        system("all_01", 0.1, vec![]),
+    ];
+    d.ingredients.clear();
+    let lib = Library::from_data(d).unwrap();
+    let k = Constants::new(
+        &lib,
+        Conditions {
+            temp_c: 25.0,
+            activity: ActivityModel::Davies,
+        },
+    );
+    let ka = |id: &str| k.ka(lib.system_index(id).unwrap()).to_vec();
+    assert!((ka("mixed")[0] / ka("all_1")[0] - 1.0).abs() < 1e-12);
+    assert!((ka("mixed")[1] / ka("all_01")[1] - 1.0).abs() < 1e-12);
+    // And the two ionic strengths really differ in effect (so the check above means something).
+    assert!((ka("all_1")[0] / ka("all_01")[0] - 1.0).abs() > 1e-3);
+}
+
+#[test]
+fn corrected_constants_and_their_enthalpies() {
+    let lib = Library::built_in().unwrap();
+    let sys = |id: &str| lib.systems()[lib.system_index(id).unwrap()].clone();
+    // Fitch et al., Protein Science 24 (2015) 752 (from memory): guanidinium pKa 13.8.
+    assert_eq!(sys("arginine").pka[2], 13.8);
+    // Amine step's ΔH° as glycine's: Goldberg, Kishore & Lennen 2002 (from memory), 44.2 kJ/mol.
+    assert_eq!(sys("arginine").dh_kj_mol[1], sys("glycine").dh_kj_mol[1]);
+    // Martell & Smith, Critical Stability Constants (from memory): malic acid 3.46, 5.10 at I = 0.
+    assert_eq!(sys("malic").pka, [3.46, 5.10]);
+    // Published ΔH° (sources in the library): none of these is left at 0 any more.
+    assert!(sys("silicic").dh_kj_mol.iter().all(|&h| h > 0.0));
+    assert!(sys("zinc").dh_kj_mol[0] > 0.0);
+    assert!(sys("iron_iii").dh_kj_mol.iter().all(|&h| h > 0.0));
+    assert!(sys("salicylic").dh_kj_mol[0] > 0.0);
+    // Tartaric and phthalic acids carry ΔCp° for every step (NBS fits, from memory).
+    assert_eq!(sys("tartaric").dcp_j_mol_k.len(), 2);
+    assert_eq!(sys("phthalic").dcp_j_mol_k.len(), 2);
 }

@@ -333,6 +333,7 @@ pub fn library(args: &LibraryArgs) -> Result<ExitCode> {
                 "dh_kj_mol": s.dh_kj_mol,
                 "dcp_j_mol_k": s.dcp_j_mol_k,
                 "pka_ionic_strength": s.pka_ionic_strength,
+                "pka_ionic_strengths": (0..s.pka.len()).map(|k| s.ionic_strength_of_step(k)).collect::<Vec<_>>(),
                 "source": s.source,
             })).collect::<Vec<_>>(),
             "ions": lib.ions().iter().map(|i| json!({"id": i.id, "symbol": i.symbol, "charge": i.charge})).collect::<Vec<_>>(),

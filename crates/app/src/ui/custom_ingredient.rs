@@ -206,6 +206,7 @@ fn build(form: &CustomForm, library: &Library) -> Result<(System, Ingredient), S
         pka,
         dcp_j_mol_k: Vec::new(),
         pka_ionic_strength: 0.0,
+        pka_ionic_strengths: Vec::new(),
         source: form.source.trim().to_owned(),
     };
     let ingredient = Ingredient {

@@ -37,6 +37,7 @@ mod tests {
             dh_kj_mol: vec![0.0; 3],
             dcp_j_mol_k: Vec::new(),
             pka_ionic_strength: 0.0,
+            pka_ionic_strengths: Vec::new(),
             source: "test".into(),
         };
         assert_eq!(

@@ -316,6 +316,26 @@ fn validate_system(s: &System) -> Result<(), LibraryError> {
             "pka_ionic_strength must be between 0 and 5 mol/kg water",
         ));
     }
+    if !s.pka_ionic_strengths.is_empty() && s.pka_ionic_strengths.len() != n {
+        return Err(invalid(
+            "system",
+            &s.id,
+            &format!(
+                "it has {n} pKa values but {} pka_ionic_strengths; give one per step or none",
+                s.pka_ionic_strengths.len()
+            ),
+        ));
+    }
+    if s.pka_ionic_strengths
+        .iter()
+        .any(|i| !(0.0..=5.0).contains(i))
+    {
+        return Err(invalid(
+            "system",
+            &s.id,
+            "pka_ionic_strengths must each be between 0 and 5 mol/kg water",
+        ));
+    }
     if s.source.trim().is_empty() {
         return Err(invalid(
             "system",

@@ -24,8 +24,22 @@ pub struct System {
     /// Ionic strength (mol/kg) at which the pKa values were measured; 0 means thermodynamic.
     #[serde(default)]
     pub pka_ionic_strength: f64,
+    /// Ionic strength (mol/kg) of each step's pKa, where the steps were measured at different
+    /// ionic strengths; empty means every step is at `pka_ionic_strength`.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub pka_ionic_strengths: Vec<f64>,
     /// Where every constant comes from.
     pub source: String,
+}
+
+impl System {
+    /// Ionic strength (mol/kg) at which the pKa of step `k` (0-based) was measured.
+    pub fn ionic_strength_of_step(&self, k: usize) -> f64 {
+        self.pka_ionic_strengths
+            .get(k)
+            .copied()
+            .unwrap_or(self.pka_ionic_strength)
+    }
 }
 
 /// An ion that takes no part in acid–base equilibria (a spectator), or the reserved `hydron`/`hydroxide`.

@@ -79,9 +79,10 @@ impl Constants {
         for s in library.systems() {
             z0.push(s.charge_of_fully_protonated);
             ka_start.push(ka.len());
-            // Constants measured at an ionic strength are brought to I = 0 with Davies at 25 °C.
-            let f = activity::davies_function(s.pka_ionic_strength);
+            // Constants measured at an ionic strength are brought to I = 0 with Davies at 25 °C,
+            // each step at the ionic strength it was measured at.
             for (k, &pka_i) in s.pka.iter().enumerate() {
+                let f = activity::davies_function(s.ionic_strength_of_step(k));
                 let z_acid = s.charge_of_fully_protonated - k as i32;
                 let pka0 = pka_i + a25 * f * f64::from(2 - 2 * z_acid);
                 let dcp = s.dcp_j_mol_k.get(k).copied().unwrap_or(0.0);
