@@ -217,6 +217,10 @@ impl Workbench {
         // The one refresh of the frame: after every command and every edit of the last frame.
         self.engine.refresh(self.doc.project());
         self.draw(ui, &ctx);
+        if self.engine.is_busy() {
+            // The pH band is drawn a part per frame; the next part comes with the next frame.
+            ctx.request_repaint();
+        }
         if !self.queue.is_empty() || !self.engine.is_current(self.doc.project()) {
             // A panel changed the project or asked for a command while drawing: this pass is
             // thrown away and drawn again after the refresh, so the frame shown is never behind.
@@ -282,6 +286,15 @@ impl Workbench {
                     );
                     ui::cautions::cautions_ui(ui, &self.engine);
                     ui::sweeps::sweeps_ui(ui, &self.engine, project.settings.temp_c);
+                    ui::tolerance::tolerance_ui(ui, project, &self.engine, &mut self.panels);
+                    ui::design::design_ui(
+                        ui,
+                        project,
+                        &self.engine,
+                        &mut self.panels.design,
+                        &mut commands,
+                    );
+                    ui::variants::compare_ui(ui, project, &self.engine, &mut commands);
                     ui.add_space(6.0);
                     // Side by side when there is room, one under the other when not.
                     let settings = &mut project.settings;

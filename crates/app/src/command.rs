@@ -14,6 +14,7 @@ use crate::app::Workbench;
 use crate::document::file_name;
 use crate::engine::Engine;
 use crate::messages::{Notice, Pending};
+pub use crate::variant_edit::VariantEdit;
 
 /// A user action.
 #[derive(Debug, Clone, PartialEq)]
@@ -54,6 +55,8 @@ pub enum Command {
     DismissNotice,
     /// Change the recipe in one undoable step.
     Edit(RecipeEdit),
+    /// Change the variants or their prices in one undoable step.
+    Variant(VariantEdit),
 }
 
 /// A discrete change to the recipe: one undo step each. Drags and typing edit the project
@@ -159,6 +162,7 @@ impl Workbench {
             }
             Command::DismissNotice => self.messages.dismiss_notice(),
             Command::Edit(edit) => self.edit(edit),
+            Command::Variant(edit) => self.variant_edit(edit),
         }
     }
 

@@ -5,6 +5,8 @@
 //! from. When a stage is made again, everything that depends on it is dropped and made again
 //! from it.
 
+use std::collections::BTreeMap;
+
 use egui_plot::PlotPoint;
 use saltwise_chem::library::{LibraryData, form_names};
 use saltwise_chem::project::{Project, Settings};
@@ -14,11 +16,14 @@ use saltwise_chem::{Amount, Library, Recipe, Unit};
 
 use saltwise_chem::curve::Doser;
 pub use saltwise_chem::curve::{CurvePoint, DoseResult, EquivalencePoint};
+use saltwise_chem::design::{self, Design};
 use saltwise_chem::drift::{self, Drift};
 use saltwise_chem::explain::{self, IngredientEffect};
 use saltwise_chem::hazard::{self, Caution};
 use saltwise_chem::sweep;
 use saltwise_chem::variant::{self, Summary, Variant};
+
+use crate::band_job::{self, BandJob, BandKey, BandState};
 
 /// Points on the dose curve.
 const CURVE_POINTS: usize = 161;
@@ -65,7 +70,8 @@ pub struct SpeciesData {
     pub molalities: Vec<f64>,
     /// Index of the form with the largest fraction at the recipe's pH.
     pub dominant: usize,
-    /// Index of the active form (the uncharged one, else the fully protonated one).
+    /// Index of the active form: the one chosen for this system, else the uncharged one, else
+    /// the fully protonated one.
     pub active: usize,
 }
 
@@ -125,6 +131,16 @@ impl CurveKey {
     }
 }
 
+/// What the species chart is made from, beyond the report: the chosen system and active forms.
+type SpeciesKey = (Option<String>, BTreeMap<String, usize>);
+
+fn species_key(settings: &Settings) -> SpeciesKey {
+    (
+        settings.species_system.clone(),
+        settings.active_forms.clone(),
+    )
+}
+
 /// The solved state of the open project, recomputed only when its inputs change.
 #[derive(Debug)]
 pub struct Engine {
@@ -134,7 +150,9 @@ pub struct Engine {
     solved: Option<(Recipe, Solved)>,
     cautions: Option<(String, Vec<Caution>)>,
     curve: Option<(CurveKey, Result<CurveData, String>)>,
-    species: Option<(Option<String>, Option<SpeciesData>)>,
+    species: Option<(SpeciesKey, Option<SpeciesData>)>,
+    /// The pH band under the project's tolerances, when any are set.
+    band: Option<BandJob>,
     /// Each variant with the curve settings its row was made for; emptied with the constants.
     variants: Vec<(Variant, CurveKey, VariantRow)>,
     solves: u64,
@@ -157,6 +175,7 @@ impl Engine {
             cautions: None,
             curve: None,
             species: None,
+            band: None,
             variants: Vec::new(),
             solves: 0,
         }
@@ -215,6 +234,16 @@ impl Engine {
         self.species.as_ref().and_then(|(_, s)| s.as_ref())
     }
 
+    /// The pH band under the project's tolerances: `None` when none are set.
+    pub fn band(&self) -> Option<&BandState> {
+        self.band.as_ref().map(|b| &b.state)
+    }
+
+    /// Whether work is still going on over several frames (the pH band being drawn).
+    pub fn is_busy(&self) -> bool {
+        self.band.as_ref().is_some_and(BandJob::is_drawing)
+    }
+
     /// One row per variant of the project, in its order, for the comparison.
     pub fn variant_rows(&self) -> impl Iterator<Item = &VariantRow> {
         self.variants.iter().map(|(_, _, row)| row)
@@ -259,8 +288,18 @@ impl Engine {
             && self
                 .species
                 .as_ref()
-                .is_some_and(|(k, _)| *k == s.species_system)
+                .is_some_and(|(k, _)| *k == species_key(s))
+            && self.band_current(project)
             && self.variants_current(project)
+    }
+
+    /// Whether the band (or its absence) is for the recipe and tolerances as they are now.
+    fn band_current(&self, project: &Project) -> bool {
+        let s = &project.settings;
+        match &self.band {
+            None => !band_job::any_set(&s.tolerances),
+            Some(b) => b.key == BandKey::of(project.recipe(), s),
+        }
     }
 
     /// Whether there is a row for every variant, made from it as it is now.
@@ -305,6 +344,7 @@ impl Engine {
                 .map_err(|e| e.to_string());
             self.constants = Some((conditions, constants));
             self.solved = None;
+            self.band = None;
             self.variants.clear();
         }
         let Some((_, constants)) = &self.constants else {
@@ -367,19 +407,26 @@ impl Engine {
             };
             self.curve = Some((curve_key, data));
         }
-        if self
-            .species
-            .as_ref()
-            .is_none_or(|(k, _)| *k != s.species_system)
-        {
+        let key = species_key(s);
+        if self.species.as_ref().is_none_or(|(k, _)| *k != key) {
             self.solves += 1;
             let data = match (report, constants) {
-                (Some(Ok(report)), Some(constants)) => {
-                    species_data(library, constants, report, s.species_system.as_deref())
-                }
+                (Some(Ok(report)), Some(constants)) => species_data(library, constants, report, s),
                 _ => None,
             };
-            self.species = Some((s.species_system.clone(), data));
+            self.species = Some((key, data));
+        }
+        if !band_job::any_set(&s.tolerances) {
+            self.band = None;
+        } else if let Some(constants) = constants {
+            let key = BandKey::of(project.recipe(), s);
+            if self.band.as_ref().is_none_or(|b| b.key != key) {
+                self.solves += 1;
+                self.band = Some(BandJob::start(key));
+            }
+            if let Some(job) = &mut self.band {
+                job.advance(library, constants);
+            }
         }
         self.refresh_variants(project);
         self.solves != before
@@ -443,7 +490,8 @@ impl Engine {
         ));
         self.cautions = Some((s.adjuster.clone(), Vec::new()));
         self.curve = Some((CurveKey::of(s), Err(why.clone())));
-        self.species = Some((s.species_system.clone(), None));
+        self.species = Some((species_key(s), None));
+        self.band = None;
         self.variants = project
             .variants()
             .iter()
@@ -456,6 +504,33 @@ impl Engine {
             })
             .collect();
         true
+    }
+
+    /// The grams of `acid` and `base` that give `target_ph` and `capacity` in `recipe` with its
+    /// lines of the two left out, or why not.
+    pub fn design_buffer(
+        &self,
+        recipe: &Recipe,
+        acid: &str,
+        base: &str,
+        target_ph: f64,
+        capacity: f64,
+    ) -> Result<Design, String> {
+        let library = self.library().map_err(str::to_owned)?;
+        let constants = self
+            .constants()
+            .ok_or("the conditions could not be set up")?;
+        let rest = Recipe {
+            lines: recipe
+                .lines
+                .iter()
+                .filter(|l| l.ingredient != acid && l.ingredient != base)
+                .cloned()
+                .collect(),
+            ..recipe.clone()
+        };
+        design::design(library, constants, &rest, acid, base, target_ph, capacity)
+            .map_err(|e| e.to_string())
     }
 
     /// The amount of line `line` given in `unit`, for the same mass where it can be known.
@@ -625,8 +700,9 @@ fn species_data(
     library: &Library,
     constants: &Constants,
     report: &Report,
-    chosen: Option<&str>,
+    settings: &Settings,
 ) -> Option<SpeciesData> {
+    let chosen = settings.species_system.as_deref();
     let present = |id: &str| {
         report.systems.iter().find(|s| {
             library
@@ -668,7 +744,12 @@ fn species_data(
             .map(|j| state.molality(j))
             .collect(),
         dominant: state.dominant_form(),
-        active: drift::default_active_form(state),
+        active: settings
+            .active_forms
+            .get(&system.id)
+            .copied()
+            .filter(|&f| f < state.fractions.len())
+            .unwrap_or_else(|| drift::default_active_form(state)),
     })
 }
 

@@ -12,6 +12,7 @@
 
 mod app;
 mod autosave;
+mod band_job;
 mod command;
 mod config;
 mod document;
@@ -20,10 +21,12 @@ mod history;
 mod messages;
 mod recovery;
 mod ui;
+mod variant_edit;
 
 pub use app::{SaveFault, Workbench};
 pub use autosave::{AUTOSAVE_IDLE_SECS, Autosave, Offer, Tick};
-pub use command::{Command, RecipeEdit, Resolution};
+pub use band_job::BandState;
+pub use command::{Command, RecipeEdit, Resolution, VariantEdit};
 pub use config::{CONFIG_DIR_ENV, ConfigStore, UserConfig};
 pub use document::Document;
 pub use engine::{CurveData, CurvePoint, Engine, SpeciesData};

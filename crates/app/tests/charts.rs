@@ -47,7 +47,13 @@ fn the_readout_shows_the_drift_and_the_species_panel_the_active_form() {
     h.get_by_label(&format!("open to air: pH {:.2}", drift.open_to_air_ph));
     // Lactic acid, pKa 3.86 (the library's source), at the demo's pH 3.86: about half is the
     // undissociated, active acid.
-    h.get_by_label_contains("Active form lactic acid: 4");
+    let data = h.state().engine().species().unwrap();
+    assert_eq!(data.forms[data.active], "lactic acid");
+    h.get_by_label_contains("% at this pH");
+    let shown = h
+        .query_all_by_label_contains("% at this pH")
+        .any(|n| format!("{n:?}").contains("value: \"4"));
+    assert!(shown, "about 40–50 % undissociated");
 }
 
 #[test]

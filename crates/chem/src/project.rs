@@ -392,7 +392,9 @@ impl Project {
             .map_err(bad)?;
         for (id, p) in &t.per_ingredient {
             let what = format!("weighing tolerance of {id}");
-            limits::WEIGHING_TOLERANCE.check_as(*p, &what).map_err(bad)?;
+            limits::WEIGHING_TOLERANCE
+                .check_as(*p, &what)
+                .map_err(bad)?;
         }
         for (id, lo, hi) in &t.assay {
             for (end, v) in [("low", lo), ("high", hi)] {

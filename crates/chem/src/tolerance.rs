@@ -345,7 +345,7 @@ impl<'a> Perturber<'a> {
     pub fn band(&self, samples: usize, seed: u64) -> Result<Band, ToleranceError> {
         let mut run = BandRun::new(samples, seed)?;
         self.advance(&mut run, samples);
-        Ok(self.finish(run))
+        Ok(self.finish(&run))
     }
 
     /// Draws up to `count` more samples of `run` (fewer when it is nearly done).
@@ -369,8 +369,8 @@ impl<'a> Perturber<'a> {
     }
 
     /// The band from a run's samples (all of them drawn or not), with the sensitivity ranking.
-    pub fn finish(&self, run: BandRun) -> Band {
-        let mut ph = run.ph;
+    pub fn finish(&self, run: &BandRun) -> Band {
+        let mut ph = run.ph.clone();
         ph.sort_by(f64::total_cmp);
         Band {
             nominal_ph: self.nominal.ph,

@@ -334,3 +334,34 @@ proptest! {
         }
     }
 }
+
+#[test]
+fn tolerances_and_active_forms_are_saved_and_checked_on_load() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut p = Project::demo();
+    p.settings.tolerances.all_percent = 1.5;
+    p.settings
+        .tolerances
+        .per_ingredient
+        .push(("water".into(), 0.5));
+    p.settings.band_seed = 9;
+    p.settings.active_forms.insert("lactic".into(), 1);
+    let text = p.to_ron().unwrap();
+    let back = load_text(dir.path(), "good.ron", text.as_bytes()).unwrap();
+    assert_eq!(back, p);
+    let cases = [
+        (
+            text.replace("all_percent: 1.5", "all_percent: 75.0"),
+            "weighing tolerance of every line 75 % is not allowed",
+        ),
+        (
+            text.replace("band_samples: 1000", "band_samples: 0"),
+            "band_samples 0 is not allowed",
+        ),
+    ];
+    for (i, (bad, expected)) in cases.iter().enumerate() {
+        assert_ne!(bad, &text, "case {i} changes the file");
+        let err = load_text(dir.path(), &format!("bad{i}.ron"), bad.as_bytes()).unwrap_err();
+        assert!(err.to_string().contains(expected), "case {i}: {err}");
+    }
+}

@@ -2,7 +2,7 @@
 //! against the sensitivity, seeded reproducibility, and the sampled batches against re-resolved
 //! recipes.
 
-use saltwise_chem::tolerance::{Perturber, ToleranceError, Tolerances, band, percentile};
+use saltwise_chem::tolerance::{BandRun, Perturber, ToleranceError, Tolerances, band, percentile};
 use saltwise_chem::{Conditions, Constants, Library, Recipe, RecipeLine, evaluate};
 
 /// An invented citrate buffer with salt, weighed in grams.
@@ -184,4 +184,26 @@ fn percentiles_interpolate_between_order_statistics() {
     let v: Vec<f64> = (0..=10).map(f64::from).collect();
     assert!((percentile(&v, 0.05) - 0.5).abs() < 1e-12);
     assert!((percentile(&v, 0.5) - 5.0).abs() < 1e-12);
+}
+
+#[test]
+fn a_band_drawn_in_parts_equals_the_band_drawn_at_once() {
+    let (lib, k) = setup();
+    let tol = Tolerances {
+        all_percent: 2.0,
+        assay: vec![("citric_acid_monohydrate".into(), 0.97, 1.0)],
+        ..Tolerances::default()
+    };
+    let whole = band(&lib, &k, &citrate(), &tol, 250, 7).expect("band");
+    let p = Perturber::new(&lib, &k, &citrate(), &tol).expect("perturber");
+    let mut run = BandRun::new(250, 7).expect("run");
+    // Uneven parts, as a window's frames would draw them (the contract; no source needed).
+    for part in [1, 24, 100, 1000] {
+        assert!(!run.is_done());
+        p.advance(&mut run, part);
+    }
+    assert!(run.is_done());
+    assert_eq!(run.drawn(), 250);
+    assert_eq!(p.finish(&run), whole);
+    assert!(BandRun::new(0, 1).is_err(), "no samples is refused");
 }

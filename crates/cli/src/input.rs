@@ -15,6 +15,8 @@ pub struct Resolved {
     pub conditions: Conditions,
     /// The project's chosen pH adjuster, when read from a project file.
     pub adjuster: Option<String>,
+    /// The project's chosen active form per system id, when read from a project file.
+    pub active_forms: std::collections::BTreeMap<String, usize>,
 }
 
 /// Builds the library, recipe and conditions from the arguments (and project file, if any).
@@ -23,12 +25,14 @@ pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
     let mut conditions = Conditions::default();
     let mut recipe = Recipe::default();
     let mut adjuster = None;
+    let mut active_forms = std::collections::BTreeMap::new();
     if let Some(path) = &args.project {
         // The same checked loader as the window: limits, custom ingredients, unknown ids with
         // their line and column.
         let (project, with_custom) = Project::load_with_library(path, &library)?;
         library = with_custom;
         adjuster = Some(project.settings.adjuster.clone());
+        active_forms = project.settings.active_forms.clone();
         conditions = Conditions {
             temp_c: project.settings.temp_c,
             activity: project.settings.activity,
@@ -85,6 +89,7 @@ pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
         recipe,
         conditions,
         adjuster,
+        active_forms,
     })
 }
 

@@ -96,7 +96,12 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
     );
     // A recipe the drift figures cannot handle still gets its pH: drift is then null.
     let drift = drift::drift(lib, &constants, &report.batch, &report.composition, s);
-    let active = drift::active_forms(&report.systems);
+    // The project's chosen forms, where it names them; the default form for every other system.
+    let active = drift::active_forms_chosen(&report.systems, |system| {
+        lib.systems()
+            .get(system)
+            .and_then(|sys| r.active_forms.get(&sys.id).copied())
+    });
     if args.json {
         let v = json!({
             "ph": s.ph,

@@ -114,6 +114,10 @@ pub fn dose_curve_ui(
         };
     let height = super::chart_height(ui, below);
     let current_color = super::current_color(ui);
+    let band = match engine.band() {
+        Some(crate::band_job::BandState::Done(Ok(b))) => Some((b.p05, b.p95)),
+        _ => None,
+    };
     // Put the legend in the bottom corner the curve leaves empty: right for a rising curve,
     // left for a falling one.
     let rising = curve.points.last().map(|p| p.ph) > curve.points.first().map(|p| p.ph);
@@ -160,6 +164,17 @@ pub fn dose_curve_ui(
                         .shape(MarkerShape::Diamond)
                         .radius(7.0)
                         .color(current_color),
+                );
+            }
+            if let Some((lo, hi)) = band {
+                // The band of the recipe as weighed, where the curve starts.
+                plot.line(
+                    Line::new(
+                        format!("pH band under the tolerances, {lo:.2} to {hi:.2}"),
+                        vec![[0.0, lo], [0.0, hi]],
+                    )
+                    .width(6.0)
+                    .color(current_color.gamma_multiply(0.6)),
                 );
             }
             if !eq.is_empty() {

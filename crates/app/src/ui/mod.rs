@@ -2,12 +2,15 @@
 
 pub mod cautions;
 pub mod custom_ingredient;
+pub mod design;
 pub mod dose_curve;
 pub mod readout;
 pub mod recipe_table;
 pub mod species_chart;
 pub mod sweeps;
+pub mod tolerance;
 pub mod top_bar;
+pub mod variants;
 
 use std::cell::RefCell;
 use std::collections::BTreeMap;
@@ -27,6 +30,12 @@ pub struct PanelState {
     pub custom: custom_ingredient::CustomForm,
     /// Why the last text typed into a number field was refused, by the field's name.
     pub refused: Refusals,
+    /// The name being typed for the current variant, while renaming.
+    pub renaming: Option<String>,
+    /// Price text as typed, by ingredient id.
+    pub price_text: BTreeMap<String, String>,
+    /// The buffer design form.
+    pub design: design::DesignForm,
 }
 
 // One colour, one meaning. The colours are from the Okabe–Ito set, chosen to stay apart for
@@ -54,6 +63,19 @@ pub const SPECIES: [Color32; 7] = [
     Color32::from_rgb(0xee, 0x66, 0x77),
     Color32::from_rgb(0x66, 0xcc, 0xee),
     Color32::from_rgb(0x22, 0x88, 0x33),
+];
+
+/// The variants on the comparison chart, in order (Tol's muted set, apart from every colour
+/// above).
+pub const VARIANT: [Color32; 8] = [
+    Color32::from_rgb(0x33, 0x22, 0x88),
+    Color32::from_rgb(0x44, 0xaa, 0x99),
+    Color32::from_rgb(0xcc, 0x66, 0x77),
+    Color32::from_rgb(0x99, 0x99, 0x33),
+    Color32::from_rgb(0x88, 0x22, 0x55),
+    Color32::from_rgb(0x88, 0xcc, 0xee),
+    Color32::from_rgb(0x11, 0x77, 0x33),
+    Color32::from_rgb(0xaa, 0x44, 0x99),
 ];
 
 /// The current recipe on any chart: the theme's own strongest text colour.
@@ -122,6 +144,17 @@ pub fn chart_height(ui: &Ui, below_points: f32) -> f32 {
 pub fn name_widget(response: Response, role: Role, name: &str) -> Response {
     let enabled = response.enabled();
     response.widget_info(|| WidgetInfo::labeled(role, enabled, name));
+    response
+}
+
+/// Gives a drag value showing `value` the accessible name `name`.
+pub fn name_drag(response: Response, value: f64, name: &str) -> Response {
+    let enabled = response.enabled();
+    response.widget_info(|| {
+        let mut info = WidgetInfo::drag_value(enabled, value);
+        info.label = Some(name.to_owned());
+        info
+    });
     response
 }
 
@@ -218,12 +251,13 @@ mod tests {
 
 #[cfg(test)]
 mod palette_tests {
-    use super::{BUFFER, EQUIVALENCE, ERROR, PH_LINE, SPECIES, TARGET, WARN};
+    use super::{BUFFER, EQUIVALENCE, ERROR, PH_LINE, SPECIES, TARGET, VARIANT, WARN};
 
     #[test]
     fn no_colour_has_two_meanings() {
         let mut all = vec![WARN, ERROR, TARGET, PH_LINE, BUFFER, EQUIVALENCE];
         all.extend(SPECIES);
+        all.extend(VARIANT);
         for (i, a) in all.iter().enumerate() {
             for b in &all[i + 1..] {
                 assert_ne!(a, b, "a colour is used twice");

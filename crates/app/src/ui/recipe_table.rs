@@ -24,6 +24,7 @@ pub fn recipe_panel_ui(
 ) {
     ui.add_space(4.0);
     ui.heading("Recipe");
+    super::variants::variant_bar_ui(ui, project, panels, commands);
     let library = match engine.library() {
         Ok(lib) => lib,
         Err(e) => {
@@ -38,6 +39,10 @@ pub fn recipe_panel_ui(
             lines_ui(ui, project, engine, library, &mut panels.refused, commands);
             ui.add_space(6.0);
             batch_ui(ui, project, engine, &mut panels.refused, commands);
+            if !project.recipe().lines.is_empty() {
+                ui.add_space(4.0);
+                super::variants::prices_ui(ui, project, engine, library, panels, commands);
+            }
             let empty = project.recipe().lines.is_empty();
             if let (Some(Err(e)), false) = (engine.report(), empty) {
                 ui.add_space(4.0);

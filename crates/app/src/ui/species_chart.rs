@@ -78,10 +78,26 @@ pub fn species_chart_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine) {
     );
     if let Some(active) = data.forms.get(data.active) {
         let fraction = data.fractions_now.get(data.active).copied().unwrap_or(0.0);
-        ui.label(format!("Active form {active}: {} % at this pH", sig(fraction * 100.0, 3)))
-            .on_hover_text(
-                "The uncharged form (e.g. the undissociated acid of a preservative), else the fully protonated one",
+        ui.horizontal_wrapped(|ui| {
+            ui.label("Active form");
+            let response = egui::ComboBox::from_id_salt("active_form")
+                .selected_text(active)
+                .width(200.0)
+                .show_ui(ui, |ui| {
+                    for (j, name) in data.forms.iter().enumerate() {
+                        if ui.selectable_label(j == data.active, name).clicked() {
+                            settings.active_forms.insert(data.system_id.clone(), j);
+                        }
+                    }
+                })
+                .response;
+            super::name_widget(response, egui::Role::ComboBox, "Active form of the system").on_hover_text(
+                "The form that does the work (e.g. the undissociated acid of a preservative); by default the uncharged form, else the fully protonated one. Saved with the project.",
             );
+            ui.label(
+                RichText::new(format!("{} % at this pH", sig(fraction * 100.0, 3))).strong(),
+            );
+        });
     }
     let current = super::current_color(ui);
     Plot::new("species_plot")
