@@ -29,8 +29,8 @@ fn a_new_variant_copies_the_current_one_and_both_are_compared() {
         .amount
         .value = 20.0;
     h.run();
-    h.get_by_label("Compare variants (2)").click();
-    h.run();
+    // A second variant opens the comparison.
+    h.get_by_label("Compare variants (2)");
     let rows: Vec<f64> = h
         .state()
         .engine()
@@ -203,4 +203,36 @@ fn the_active_form_is_chosen_in_the_species_panel_and_saved() {
     let shown = format!("{:.3}", data.fractions_now[1] * 100.0);
     assert!(!shown.is_empty());
     h.get_by_label_contains("% at this pH");
+}
+
+#[test]
+fn the_hand_wash_demo_opens_with_both_variants_compared_and_its_band() {
+    let dir = tempfile::tempdir().unwrap();
+    let file = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("../../assets/demo/harbourline-hand-wash.ron");
+    let mut h = harness_in(
+        saltwise_chem::project::Project::default(),
+        &Folders::under(dir.path()),
+    );
+    h.state_mut().queue(saltwise::Command::OpenPath(file));
+    for _ in 0..20 {
+        h.run();
+    }
+    assert_eq!(h.state().project().variants().len(), 2);
+    h.get_by_label("Compare variants (2)");
+    h.get_by_label("Make Salts only current");
+    let costs: Vec<Option<f64>> = h
+        .state()
+        .engine()
+        .variant_rows()
+        .map(|r| r.summary.as_ref().unwrap().cost_per_kg)
+        .collect();
+    assert!(
+        costs.iter().all(Option::is_some),
+        "every line is priced: {costs:?}"
+    );
+    assert!(matches!(
+        h.state().engine().band(),
+        Some(BandState::Done(Ok(_)))
+    ));
 }

@@ -65,14 +65,14 @@ pub const SPECIES: [Color32; 7] = [
     Color32::from_rgb(0x22, 0x88, 0x33),
 ];
 
-/// The variants on the comparison chart, in order (Tol's muted set, apart from every colour
+/// The variants on the comparison chart, in order (mostly Tol's muted set, lightened for the dark theme; apart from every colour
 /// above).
 pub const VARIANT: [Color32; 8] = [
-    Color32::from_rgb(0x33, 0x22, 0x88),
+    Color32::from_rgb(0xdd, 0xcc, 0x77),
     Color32::from_rgb(0x44, 0xaa, 0x99),
     Color32::from_rgb(0xcc, 0x66, 0x77),
     Color32::from_rgb(0x99, 0x99, 0x33),
-    Color32::from_rgb(0x88, 0x22, 0x55),
+    Color32::from_rgb(0xee, 0x99, 0x33),
     Color32::from_rgb(0x88, 0xcc, 0xee),
     Color32::from_rgb(0x11, 0x77, 0x33),
     Color32::from_rgb(0xaa, 0x44, 0x99),

@@ -208,7 +208,8 @@ fn cost_text(s: &saltwise_chem::variant::Summary) -> String {
 pub fn compare_ui(ui: &mut Ui, project: &Project, engine: &Engine, commands: &mut Vec<Command>) {
     let n = project.variants().len();
     egui::CollapsingHeader::new(format!("Compare variants ({n})"))
-        .id_salt("compare_section")
+        // One state for a single variant and one for several: a second variant opens it.
+        .id_salt(("compare_section", n > 1))
         .default_open(n > 1)
         .show(ui, |ui| {
             if n < 2 {
