@@ -236,3 +236,37 @@ fn the_hand_wash_demo_opens_with_both_variants_compared_and_its_band() {
         Some(BandState::Done(Ok(_)))
     ));
 }
+
+#[test]
+fn a_tolerance_left_on_a_line_switched_off_says_why_and_can_be_taken_off() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness_in(citric_project(), &Folders::under(dir.path()));
+    h.get_by_label("Tolerances and pH band").click();
+    h.run();
+    h.get_by_label("Own tolerance of citric acid monohydrate")
+        .click();
+    h.run();
+    type_into(&mut h, "Tolerance of citric acid monohydrate", "3");
+    assert_eq!(
+        h.state().project().settings.tolerances.per_ingredient,
+        vec![("citric_acid_monohydrate".to_owned(), 3.0)]
+    );
+    h.get_by_label("Use line 2").click();
+    h.run();
+    assert!(
+        h.query_all_by_label_contains("No pH band").count() >= 2,
+        "readout and section"
+    );
+    h.get_by_label("Own tolerance of citric acid monohydrate")
+        .click();
+    h.run();
+    assert!(
+        h.state()
+            .project()
+            .settings
+            .tolerances
+            .per_ingredient
+            .is_empty()
+    );
+    assert!(h.state().engine().band().is_none(), "nothing set, no band");
+}

@@ -59,6 +59,19 @@ fn settings_ui(ui: &mut Ui, project: &mut Project, library: &Library, panels: &m
             ids.push(l.ingredient.clone());
         }
     }
+    // Ingredients a tolerance still names after their lines went off or away stay listed, so
+    // the tolerance can be taken off again.
+    let t = &project.settings.tolerances;
+    let named = t
+        .per_ingredient
+        .iter()
+        .map(|(i, _)| i)
+        .chain(t.assay.iter().map(|(i, _, _)| i));
+    for id in named {
+        if !ids.contains(id) {
+            ids.push(id.clone());
+        }
+    }
     let s = &mut project.settings;
     ui.horizontal_wrapped(|ui| {
         ui.label("Every line ±");

@@ -31,6 +31,9 @@ impl Folders {
     }
 }
 
+/// Most frames one `run()` may take before the window must have settled.
+pub const MAX_STEPS: u64 = 400;
+
 /// A workbench on `project` in a 1600×1000 window, keeping its files in `folders`.
 pub fn harness_in(project: Project, folders: &Folders) -> Harness<'static, Workbench> {
     let app = Workbench::with_stores(
@@ -40,6 +43,9 @@ pub fn harness_in(project: Project, folders: &Folders) -> Harness<'static, Workb
     );
     Harness::builder()
         .with_size([1600.0, 1000.0])
+        // The pH band is drawn a part per frame (8 ms each): a debug build on a loaded machine
+        // takes a few dozen frames to settle.
+        .with_max_steps(MAX_STEPS)
         .build_ui_state(|ui, app: &mut Workbench| app.show(ui), app)
 }
 
