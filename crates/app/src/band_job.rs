@@ -67,6 +67,14 @@ impl BandJob {
         Self { key, state }
     }
 
+    /// A band for `key` that cannot be drawn, and why.
+    pub fn failed(key: BandKey, why: &str) -> Self {
+        Self {
+            key,
+            state: BandState::Done(Err(why.to_owned())),
+        }
+    }
+
     /// Draws samples until the frame's budget is spent or the band is done; returns whether
     /// anything was drawn.
     pub fn advance(&mut self, library: &Library, constants: &Constants) -> bool {

@@ -418,13 +418,16 @@ impl Engine {
         }
         if !band_job::any_set(&s.tolerances) {
             self.band = None;
-        } else if let Some(constants) = constants {
+        } else {
             let key = BandKey::of(project.recipe(), s);
             if self.band.as_ref().is_none_or(|b| b.key != key) {
                 self.solves += 1;
-                self.band = Some(BandJob::start(key));
+                self.band = Some(match constants {
+                    Some(_) => BandJob::start(key),
+                    None => BandJob::failed(key, "the conditions could not be set up"),
+                });
             }
-            if let Some(job) = &mut self.band {
+            if let (Some(job), Some(constants)) = (&mut self.band, constants) {
                 job.advance(library, constants);
             }
         }
@@ -491,7 +494,8 @@ impl Engine {
         self.cautions = Some((s.adjuster.clone(), Vec::new()));
         self.curve = Some((CurveKey::of(s), Err(why.clone())));
         self.species = Some((species_key(s), None));
-        self.band = None;
+        self.band = band_job::any_set(&s.tolerances)
+            .then(|| BandJob::failed(BandKey::of(project.recipe(), s), &why));
         self.variants = project
             .variants()
             .iter()
