@@ -139,3 +139,45 @@ fn bad_variant_requests_are_refused_plainly() {
     assert!(err.contains("none.ron"), "{err}");
     fails(&["compare", "--json"]);
 }
+
+#[test]
+fn ph_of_a_project_reports_the_active_form_the_project_chose() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut p = Project::with_recipe(Recipe {
+        lines: vec![RecipeLine::grams("citric_acid_monohydrate", 10.0)],
+        qs_to_g: Some(1000.0),
+    });
+    // Form 1 of citric acid: one proton removed (dihydrogen citrate).
+    p.settings.active_forms.insert("citric".into(), 1);
+    let file = dir.path().join("chosen.ron");
+    p.save(&file).unwrap();
+    let file = file.display().to_string();
+    let chosen = json(&["ph", "--project", &file, "--json"]);
+    let plain = json(&[
+        "ph",
+        "citric_acid_monohydrate=10g",
+        "--qs-to",
+        "1000g",
+        "--json",
+    ]);
+    let form = |v: &serde_json::Value| {
+        let f = v["active_forms"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|f| f["system"] == "citric")
+            .unwrap()
+            .clone();
+        (f["form"].as_u64().unwrap(), f["fraction"].as_f64().unwrap())
+    };
+    let (chosen_form, chosen_fraction) = form(&chosen);
+    let (plain_form, plain_fraction) = form(&plain);
+    assert_eq!(
+        (chosen_form, plain_form),
+        (1, 0),
+        "the default is the uncharged acid"
+    );
+    // Fractions of one system's forms at one pH add to 1 (mass balance), and at pH ~2.6 the
+    // undissociated acid dominates.
+    assert!(plain_fraction > chosen_fraction && plain_fraction + chosen_fraction <= 1.0);
+}
