@@ -15,6 +15,18 @@ fn option(h: &mut egui_kittest::Harness<'_, saltwise::Workbench>, name: &str) {
     h.run();
 }
 
+/// Opens the design form and chooses citric acid and trisodium citrate as the pair.
+fn choose_citrate_pair(h: &mut egui_kittest::Harness<'_, saltwise::Workbench>) {
+    h.get_by_label("Buffer design").click();
+    h.run();
+    h.get_by_label("Design acid form").click();
+    h.run();
+    option(h, "citric acid monohydrate");
+    h.get_by_label("Design salt form").click();
+    h.run();
+    option(h, "trisodium citrate dihydrate");
+}
+
 #[test]
 fn a_new_variant_copies_the_current_one_and_both_are_compared() {
     let dir = tempfile::tempdir().unwrap();
@@ -134,16 +146,7 @@ fn the_tolerance_band_shows_beside_the_readout_and_holds_the_nominal_ph() {
 fn a_designed_buffer_goes_into_the_recipe() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness_in(citric_project(), &Folders::under(dir.path()));
-    h.get_by_label("Buffer design").click();
-    h.run();
-    h.get_by_label("Design acid form").click();
-    h.run();
-    option(&mut h, "citric acid monohydrate");
-    h.run();
-    h.get_by_label("Design salt form").click();
-    h.run();
-    option(&mut h, "trisodium citrate dihydrate");
-    h.run();
+    choose_citrate_pair(&mut h);
     h.get_by_label("Work out amounts").click();
     h.run();
     h.get_by_label("Put these amounts into the recipe").click();
@@ -169,16 +172,7 @@ fn a_designed_buffer_goes_into_the_recipe() {
 fn a_pair_out_of_reach_says_so() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness_in(citric_project(), &Folders::under(dir.path()));
-    h.get_by_label("Buffer design").click();
-    h.run();
-    h.get_by_label("Design acid form").click();
-    h.run();
-    option(&mut h, "citric acid monohydrate");
-    h.run();
-    h.get_by_label("Design salt form").click();
-    h.run();
-    option(&mut h, "trisodium citrate dihydrate");
-    h.run();
+    choose_citrate_pair(&mut h);
     // Far more capacity than the model's cap of 5 mol/kg water of the system can give.
     type_into(&mut h, "Design buffer capacity", "4");
     h.get_by_label("Work out amounts").click();
