@@ -186,6 +186,7 @@ fn small() -> LibraryData {
             ion("chloride", "Cl-", -1),
         ],
         ingredients: vec![sodium_acetate()],
+        ..LibraryData::default()
     }
 }
 

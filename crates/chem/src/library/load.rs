@@ -41,6 +41,9 @@ impl Library {
             system_by_id: HashMap::new(),
             ion_by_id: HashMap::new(),
             entry_by_id: HashMap::new(),
+            complexes: Vec::new(),
+            solids: Vec::new(),
+            pitzer: super::PitzerTable::default(),
             hydron: 0,
             hydroxide: 0,
         };
@@ -50,6 +53,7 @@ impl Library {
         for ingredient in data.ingredients {
             library.add_ingredient(ingredient)?;
         }
+        library.add_speciation(data.complexes, data.solids, data.pitzer)?;
         Ok(library)
     }
 
@@ -59,7 +63,7 @@ impl Library {
         for ingredient in data.ingredients {
             self.add_ingredient(ingredient)?;
         }
-        Ok(())
+        self.add_speciation(data.complexes, data.solids, data.pitzer)
     }
 
     /// Checks and adds systems, then ions; system and ion ids share one name space.

@@ -8,13 +8,18 @@ mod entry;
 mod forms;
 mod load;
 mod model;
+mod speciation;
 mod suggest;
 
 use std::collections::HashMap;
 
 pub use entry::{Entry, ResolvedRelease};
 pub use forms::{charge_label, form_names};
-pub use model::{Hazard, Ingredient, Ion, LibraryData, Release, System};
+pub use model::{
+    Complex, Hazard, Ingredient, Ion, LibraryData, PitzerData, PitzerMixing, PitzerPair,
+    PitzerTriple, Release, Solid, System,
+};
+pub use speciation::{PitzerTable, ResolvedComplex, ResolvedSolid, Species};
 
 /// Id of the reserved ion for a proton released by a strong acid.
 pub const HYDRON: &str = "hydron";
@@ -35,6 +40,9 @@ pub struct Library {
     system_by_id: HashMap<String, usize>,
     ion_by_id: HashMap<String, usize>,
     entry_by_id: HashMap<String, usize>,
+    complexes: Vec<ResolvedComplex>,
+    solids: Vec<ResolvedSolid>,
+    pitzer: PitzerTable,
     hydron: usize,
     hydroxide: usize,
 }

@@ -144,4 +144,121 @@ pub struct LibraryData {
     /// Ingredients.
     #[serde(default)]
     pub ingredients: Vec<Ingredient>,
+    /// Pitzer interaction parameters of the concentrate activity model.
+    #[serde(default, skip_serializing_if = "PitzerData::is_empty")]
+    pub pitzer: PitzerData,
+    /// Complexes and ion pairs of a metal ion with one ligand.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub complexes: Vec<Complex>,
+    /// Sparingly soluble solids whose saturation is reported.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub solids: Vec<Solid>,
+}
+
+/// Pitzer parameters at 25 °C, each naming its source.
+///
+/// Species are named by ion id (`sodium`) or as `SYSTEM/FORM`, FORM the protons removed
+/// (`carbonic/2` is CO₃²⁻).
+#[derive(Debug, Clone, Default, PartialEq, Serialize, Deserialize)]
+pub struct PitzerData {
+    /// Cation–anion parameters β⁽⁰⁾, β⁽¹⁾, β⁽²⁾ and C^φ.
+    #[serde(default)]
+    pub pairs: Vec<PitzerPair>,
+    /// θ of two ions of the same sign.
+    #[serde(default)]
+    pub mixing: Vec<PitzerMixing>,
+    /// ψ of two ions of the same sign with one of the other sign.
+    #[serde(default)]
+    pub triples: Vec<PitzerTriple>,
+}
+
+impl PitzerData {
+    /// Whether no parameter is given.
+    pub fn is_empty(&self) -> bool {
+        self.pairs.is_empty() && self.mixing.is_empty() && self.triples.is_empty()
+    }
+}
+
+/// Pitzer parameters of one cation–anion pair.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct PitzerPair {
+    /// The cation.
+    pub cation: String,
+    /// The anion.
+    pub anion: String,
+    /// β⁽⁰⁾, kg/mol.
+    pub beta0: f64,
+    /// β⁽¹⁾, kg/mol.
+    pub beta1: f64,
+    /// β⁽²⁾, kg/mol (2:2 pairs).
+    #[serde(default)]
+    pub beta2: f64,
+    /// C^φ, kg²/mol².
+    #[serde(default)]
+    pub c_phi: f64,
+    /// Where the values come from.
+    pub source: String,
+}
+
+/// θ of two ions of the same sign.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct PitzerMixing {
+    /// The two ions.
+    pub ions: (String, String),
+    /// θ, kg/mol.
+    pub theta: f64,
+    /// Where the value comes from.
+    pub source: String,
+}
+
+/// ψ of two ions of the same sign with one ion of the other sign.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct PitzerTriple {
+    /// The two ions of the same sign.
+    pub ions: (String, String),
+    /// The ion of the other sign.
+    pub with: String,
+    /// ψ, kg²/mol².
+    pub psi: f64,
+    /// Where the value comes from.
+    pub source: String,
+}
+
+/// A complex (or ion pair) of a metal ion with one ligand: M + L ⇌ ML.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Complex {
+    /// Stable id, e.g. `calcium_edta`.
+    pub id: String,
+    /// The metal ion's id, e.g. `calcium`.
+    pub metal: String,
+    /// The ligand: `hydroxide` or a form of a system as `SYSTEM/FORM`.
+    pub ligand: String,
+    /// log10 of the formation constant at 25 °C, molal, at `ionic_strength`.
+    pub log_k: f64,
+    /// Ionic strength (mol/kg) at which `log_k` was measured; 0 means thermodynamic.
+    #[serde(default)]
+    pub ionic_strength: f64,
+    /// Standard enthalpy of formation of the complex from M and L, kJ/mol.
+    #[serde(default)]
+    pub dh_kj_mol: f64,
+    /// Where the values come from.
+    pub source: String,
+}
+
+/// A sparingly soluble solid and its solubility product.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Solid {
+    /// Mineral or chemical name used as id, e.g. `calcite`.
+    pub id: String,
+    /// Display name, e.g. `calcite (CaCO₃)`.
+    pub name: String,
+    /// The ions one formula unit dissolves into, each with its count.
+    pub components: Vec<(String, u32)>,
+    /// log10 Ksp at 25 °C, I = 0 (activity product at saturation).
+    pub log_ksp: f64,
+    /// Standard enthalpy of dissolution, kJ/mol.
+    #[serde(default)]
+    pub dh_kj_mol: f64,
+    /// Where the values come from.
+    pub source: String,
 }
