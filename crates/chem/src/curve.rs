@@ -58,6 +58,8 @@ pub struct Doser<'a> {
     water_kg_per_g: f64,
     /// (system index, mol in batch, mol per g of adjuster).
     systems: Vec<(usize, f64, f64)>,
+    /// (ion index, mol in batch, mol per g of adjuster), hydron and hydroxide excluded.
+    ions: Vec<(usize, f64, f64)>,
     /// (Σ z·n, Σ z²·n, Σ |z|·n, proton excess) in the batch and per g.
     spectators: [f64; 4],
     spectators_per_g: [f64; 4],
@@ -97,6 +99,14 @@ impl<'a> Doser<'a> {
             .filter(|(_, (b, p))| **b > 0.0 || **p > 0.0)
             .map(|(i, (b, p))| (i, *b, *p))
             .collect();
+        let ions = base
+            .ion_mol
+            .iter()
+            .zip(&per_gram.ion_mol)
+            .enumerate()
+            .filter(|(i, (b, p))| (**b > 0.0 || **p > 0.0) && !library.is_proton_ion(*i))
+            .map(|(i, (b, p))| (i, *b, *p))
+            .collect();
         let sums = |t: &Totals| {
             let [charge, z2, abs_charge] = t.spectator_sums(library);
             [charge, z2, abs_charge, t.proton_excess_mol]
@@ -108,6 +118,7 @@ impl<'a> Doser<'a> {
             water_kg: base.water_kg,
             water_kg_per_g: per_gram.water_kg,
             systems,
+            ions,
             spectators: sums(base),
             spectators_per_g: sums(&per_gram),
         })
@@ -120,6 +131,12 @@ impl<'a> Doser<'a> {
         Composition {
             systems: self
                 .systems
+                .iter()
+                .map(|&(i, b, p)| (i, (b + dose_g * p) / w))
+                .filter(|(_, m)| *m > 0.0)
+                .collect(),
+            ions: self
+                .ions
                 .iter()
                 .map(|&(i, b, p)| (i, (b + dose_g * p) / w))
                 .filter(|(_, m)| *m > 0.0)

@@ -189,6 +189,7 @@ fn active_form_is_the_uncharged_one_or_else_the_fully_protonated() {
         total: 1.0,
         fractions: vec![0.25, 0.75],
         charges: vec![-1, -2],
+        bound: 0.0,
     };
     assert_eq!(drift::default_active_form(&st), 0);
 }

@@ -92,6 +92,13 @@ impl Totals {
                 .filter(|(_, m)| **m > 0.0)
                 .map(|(i, m)| (i, m / w))
                 .collect(),
+            ions: self
+                .ion_mol
+                .iter()
+                .enumerate()
+                .filter(|(i, m)| **m > 0.0 && !library.is_proton_ion(*i))
+                .map(|(i, m)| (i, m / w))
+                .collect(),
             proton_excess: self.proton_excess_mol / w,
             ..Composition::default()
         };

@@ -1,9 +1,13 @@
-//! The charge balance in one unknown (pH) with its analytic derivative, at fixed activity coefficients.
+//! The charge balance in one unknown (pH) with its analytic derivative, at fixed activity
+//! coefficients; metal balances, where complexes take part, are closed inside each evaluation.
 
 use std::f64::consts::LN_10;
 
-use super::species::{self, Gammas};
-use super::{Composition, Constants, Solution, SolveStatus};
+use super::binding::{Binding, BoundState, Inputs, Ligand};
+use super::layout::{self, H, Layout, OH};
+use super::pitzer::Model;
+use super::species;
+use super::{ActivityModel, Composition, Constants, Solution, SolveStatus};
 
 /// One evaluation of the charge balance at a pH.
 #[derive(Debug, Clone, Copy)]
@@ -20,66 +24,179 @@ pub struct Evaluation {
     pub h_molal: f64,
     /// Free OH⁻ molality.
     pub oh_molal: f64,
-    /// Σ C·⟨j⟩: protons removed from the systems, mol/kg.
+    /// Protons removed from the systems and OH⁻ bound to metals, mol/kg.
     pub protons_removed: f64,
+    /// Largest relative metal-balance residual (0 without complexes).
+    pub metal_residual: f64,
 }
 
 /// The charge balance of one composition, with activity coefficients and conditional
-/// constants held for one ionic strength at a time.
+/// constants held between calls to [`ChargeBalance::set_gammas`].
 pub struct ChargeBalance<'a> {
     constants: &'a Constants,
     composition: &'a Composition,
-    gamma1: f64,
-    /// The ionic strength the coefficients are for (NaN before the first set).
+    layout: Layout,
+    binding: Binding,
+    pitzer: Option<Model>,
+    /// γ of every layout position.
+    gamma: Vec<f64>,
+    /// The ionic strength the by-charge coefficients are for (NaN when set otherwise).
     ionic: f64,
     /// Conditional Ka of every step of every system present, in composition order.
     ka_c: Vec<f64>,
+    /// Conditional formation constant of each complex taking part.
+    k_cond: Vec<f64>,
+    /// ln free molality of each bound metal (warm start).
+    u: Vec<f64>,
+    totals: Vec<f64>,
 }
 
 impl<'a> ChargeBalance<'a> {
     /// The balance of a composition under some constants, at I = 0 until set.
     pub fn new(constants: &'a Constants, composition: &'a Composition) -> Self {
+        let binding = Binding::new(constants, composition);
+        let layout = Layout::new(constants, composition, &binding);
+        let pitzer = (constants.conditions.activity == ActivityModel::Pitzer)
+            .then(|| layout.pitzer_model(constants, composition));
         let steps = composition
             .systems
             .iter()
             .map(|&(s, _)| constants.ka(s).len())
             .sum();
+        let u = binding.metals.iter().map(|m| m.total.ln()).collect();
         let mut b = Self {
             constants,
             composition,
-            gamma1: 1.0,
+            gamma: vec![1.0; layout.len()],
+            layout,
+            pitzer,
             ionic: f64::NAN,
             ka_c: Vec::with_capacity(steps),
+            k_cond: vec![0.0; binding.complexes.len()],
+            binding,
+            u,
+            totals: composition.systems.iter().map(|&(_, t)| t).collect(),
         };
         b.set_ionic_strength(0.0);
         b
     }
 
-    /// Recomputes activity coefficients and conditional constants at an ionic strength.
+    /// Sets the coefficients from the charges at an ionic strength (Davies or ideal; the start
+    /// of a Pitzer iteration).
     pub fn set_ionic_strength(&mut self, ionic_strength: f64) {
         if ionic_strength.to_bits() == self.ionic.to_bits() {
             return;
         }
+        let g = self.layout.by_charge(self.constants, ionic_strength);
+        self.set_gammas(g);
         self.ionic = ionic_strength;
-        let gammas = Gammas::new(self.constants, ionic_strength);
-        self.gamma1 = gammas.of(1);
+    }
+
+    /// Holds the given coefficients (layout order) and recomputes the conditional constants.
+    pub fn set_gammas(&mut self, gamma: Vec<f64>) {
+        self.ionic = f64::NAN;
+        self.gamma = gamma;
         self.ka_c.clear();
-        for &(system, _) in &self.composition.systems {
-            species::conditional_ka(self.constants, system, &gammas, &mut self.ka_c);
+        for (slot, &(system, _)) in self.composition.systems.iter().enumerate() {
+            let start = self.layout.form_start[slot];
+            for (k, &ka) in self.constants.ka(system).iter().enumerate() {
+                self.ka_c
+                    .push(ka * self.gamma[start + k] / self.gamma[start + k + 1]);
+            }
+        }
+        for (c, b) in self.binding.complexes.iter().enumerate() {
+            let g_metal = self.gamma[self.layout.ion(self.binding.metals[b.metal].slot)];
+            let g_ligand = match b.ligand {
+                Ligand::Hydroxide => self.gamma[OH],
+                Ligand::Form { slot, form } => self.gamma[self.layout.form_start[slot] + form],
+            };
+            let g_complex = self.gamma[self.layout.complex_start + c];
+            self.k_cond[c] = self.constants.complexes[b.constant].k * g_metal * g_ligand / g_complex;
         }
     }
 
+    /// The coefficients held.
+    pub fn gammas(&self) -> &[f64] {
+        &self.gamma
+    }
+
+    /// Whether this balance uses the Pitzer model.
+    pub fn is_pitzer(&self) -> bool {
+        self.pitzer.is_some()
+    }
+
+    /// The coefficients the activity model gives at the species of a pH (layout order).
+    pub fn model_gammas(&mut self, ph: f64) -> Vec<f64> {
+        let m = self.molalities(ph);
+        layout::coefficients(self.constants, &self.layout, self.pitzer.as_ref(), &m)
+    }
+
+    /// Starts the metal balances from these ln free molalities.
+    pub fn set_free_metals(&mut self, u: &[f64]) {
+        if u.len() == self.u.len() {
+            self.u.copy_from_slice(u);
+        }
+    }
+
+    /// The layout, binding and Pitzer model of this balance.
+    pub fn parts(&self) -> (&Layout, &Binding, Option<&Model>) {
+        (&self.layout, &self.binding, self.pitzer.as_ref())
+    }
+
+    /// Free-form distribution of every slot at 1/a(H⁺), with its ⟨j⟩ and Var(j).
+    fn distributions(&self, inv_h: f64) -> (Vec<Vec<f64>>, Vec<f64>, Vec<f64>) {
+        let mut q = Vec::with_capacity(self.totals.len());
+        let mut mean = Vec::with_capacity(self.totals.len());
+        let mut var = Vec::with_capacity(self.totals.len());
+        let mut offset = 0;
+        for &(system, _) in &self.composition.systems {
+            let n = self.constants.ka(system).len();
+            let mut t = Vec::with_capacity(n + 1);
+            t.push(1.0);
+            for k in 0..n {
+                t.push(t[k] * self.ka_c[offset + k] * inv_h);
+            }
+            offset += n;
+            let sum: f64 = t.iter().sum();
+            t.iter_mut().for_each(|x| *x /= sum);
+            let m1: f64 = t.iter().enumerate().map(|(j, x)| j as f64 * x).sum();
+            let m2: f64 = t.iter().enumerate().map(|(j, x)| (j * j) as f64 * x).sum();
+            mean.push(m1);
+            var.push((m2 - m1 * m1).max(0.0));
+            q.push(t);
+        }
+        (q, mean, var)
+    }
+
+    /// The bound state at a pH, solving the metal balances from the warm start.
+    fn bound(&mut self, inv_h: f64, oh: f64) -> (BoundState, Vec<Vec<f64>>, Vec<f64>) {
+        let (q, mean, var) = self.distributions(inv_h);
+        let inputs = Inputs {
+            k_cond: &self.k_cond,
+            q: &q,
+            mean: &mean,
+            variance: &var,
+            totals: &self.totals,
+            oh,
+        };
+        let state = self.binding.solve(&inputs, &mut self.u);
+        (state, q, mean)
+    }
+
     /// The residual, its derivative and the ionic strength at a pH.
-    pub fn evaluate(&self, ph: f64) -> Evaluation {
+    pub fn evaluate(&mut self, ph: f64) -> Evaluation {
         let h = (-ph * LN_10).exp();
         let inv_h = 1.0 / h;
-        let h_molal = h / self.gamma1;
-        let oh_molal = self.constants.kw * inv_h / self.gamma1;
+        let h_molal = h / self.gamma[H];
+        let oh_molal = self.constants.kw * inv_h / self.gamma[OH];
         let c = self.composition;
         let mut residual = c.spectator_charge + h_molal - oh_molal;
         let mut scale = c.spectator_abs_charge + h_molal + oh_molal;
-        let mut var_sum = 0.0;
         let mut z2_sum = c.spectator_z2 + h_molal + oh_molal;
+        if !self.binding.is_empty() {
+            return self.evaluate_bound(ph, inv_h, h_molal, oh_molal, [residual, scale, z2_sum]);
+        }
+        let mut var_sum = 0.0;
         let mut protons_removed = 0.0;
         let mut offset = 0;
         for &(system, total) in &c.systems {
@@ -94,6 +211,7 @@ impl<'a> ChargeBalance<'a> {
             z2_sum += total * m.mean_z2;
             protons_removed += total * m.mean;
         }
+        let _ = ph;
         Evaluation {
             residual,
             derivative: -LN_10 * (h_molal + oh_molal + var_sum),
@@ -102,26 +220,111 @@ impl<'a> ChargeBalance<'a> {
             h_molal,
             oh_molal,
             protons_removed,
+            metal_residual: 0.0,
         }
     }
 
-    /// Builds the reported solution at a converged pH and ionic strength.
+    /// [`Self::evaluate`] when complexes take part.
+    fn evaluate_bound(
+        &mut self,
+        _ph: f64,
+        inv_h: f64,
+        h_molal: f64,
+        oh_molal: f64,
+        [mut residual, mut scale, mut z2_sum]: [f64; 3],
+    ) -> Evaluation {
+        let (state, q, _) = self.bound(inv_h, oh_molal);
+        let c = self.composition;
+        let mut protons_removed = 0.0;
+        for (slot, &(system, total)) in c.systems.iter().enumerate() {
+            let z0 = self.constants.z0(system);
+            residual += total * f64::from(z0) - state.protons_removed[slot];
+            protons_removed += state.protons_removed[slot];
+            let s = state.free_total[slot];
+            for (j, qj) in q[slot].iter().enumerate() {
+                let z = f64::from(z0 - j as i32);
+                scale += s * qj * z.abs();
+                z2_sum += s * qj * z * z;
+            }
+        }
+        for (n, m) in self.binding.metals.iter().enumerate() {
+            let z = f64::from(self.layout.charges[self.layout.ion(m.slot)]);
+            let bound = m.total - state.free[n];
+            scale -= z.abs() * bound;
+            z2_sum -= z * z * bound;
+        }
+        for (k, b) in self.binding.complexes.iter().enumerate() {
+            let z = f64::from(self.constants.complexes[b.constant].charge);
+            let amount = state.complex[k];
+            scale += z.abs() * amount;
+            z2_sum += z * z * amount;
+            if b.ligand == Ligand::Hydroxide {
+                residual -= amount;
+                protons_removed += amount;
+            }
+        }
+        Evaluation {
+            residual,
+            derivative: -LN_10 * (h_molal + oh_molal) + state.partial_p + state.derivative_correction,
+            scale,
+            ionic_strength: 0.5 * z2_sum,
+            h_molal,
+            oh_molal,
+            protons_removed,
+            metal_residual: state.metal_residual,
+        }
+    }
+
+    /// Molality of every layout position at a pH (free metals, free forms, complexes).
+    pub fn molalities(&mut self, ph: f64) -> Vec<f64> {
+        let h = (-ph * LN_10).exp();
+        let inv_h = 1.0 / h;
+        let mut m = vec![0.0; self.layout.len()];
+        m[H] = h / self.gamma[H];
+        m[OH] = self.constants.kw * inv_h / self.gamma[OH];
+        for (slot, &(_, molal)) in self.composition.ions.iter().enumerate() {
+            m[self.layout.ion(slot)] = molal;
+        }
+        let (state, q, _) = if self.binding.is_empty() {
+            let (q, mean, _) = self.distributions(inv_h);
+            let state = BoundState {
+                free_total: self.totals.clone(),
+                ..BoundState::default()
+            };
+            (state, q, mean)
+        } else {
+            self.bound(inv_h, m[OH])
+        };
+        for (n, metal) in self.binding.metals.iter().enumerate() {
+            m[self.layout.ion(metal.slot)] = state.free[n];
+        }
+        for (slot, qs) in q.iter().enumerate() {
+            let start = self.layout.form_start[slot];
+            for (j, qj) in qs.iter().enumerate() {
+                m[start + j] = state.free_total[slot] * qj;
+            }
+        }
+        for (k, amount) in state.complex.iter().enumerate() {
+            m[self.layout.complex_start + k] = *amount;
+        }
+        m[self.layout.unattributed] = self.layout.unattributed_charge.abs();
+        m
+    }
+
+    /// Builds the reported solution at a converged pH.
     pub fn finish(
         &mut self,
         ph: f64,
-        ionic: f64,
         evaluated: Option<Evaluation>,
         iterations: u32,
         outer: u32,
         status: SolveStatus,
     ) -> Solution {
-        let same = ionic.to_bits() == self.ionic.to_bits();
-        self.set_ionic_strength(ionic);
         let e = match evaluated {
-            Some(e) if same => e,
-            _ => self.evaluate(ph),
+            Some(e) => e,
+            None => self.evaluate(ph),
         };
-        // Proton balance: [H⁺] − [OH⁻] − Σ C⟨j⟩ equals the protons released in excess of the reference.
+        // Proton balance: [H⁺] − [OH⁻] − Σ C⟨j⟩ − bound OH⁻ equals the protons in excess of the reference.
         let proton_lhs = e.h_molal - e.oh_molal - e.protons_removed;
         // Its scale includes every charged species: the spectators' rounding bounds both balances.
         let proton_scale = (e.h_molal
@@ -139,9 +342,13 @@ impl<'a> ChargeBalance<'a> {
             charge_residual: e.residual.abs() / e.scale.max(f64::MIN_POSITIVE),
             proton_residual: (proton_lhs - self.composition.proton_excess).abs()
                 / proton_scale.max(f64::MIN_POSITIVE),
+            metal_residual: e.metal_residual,
             iterations,
             outer_iterations: outer,
             status,
+            activity: self.constants.conditions.activity,
+            gamma: self.gamma.clone(),
+            free_metals: self.u.clone(),
         }
     }
 }

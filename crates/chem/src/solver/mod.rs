@@ -8,17 +8,22 @@
 
 pub mod activity;
 mod balance;
+mod binding;
+mod layout;
 mod newton;
+pub mod pitzer;
 mod species;
+mod speciation;
 pub mod temperature;
 pub mod water;
 
 use serde::{Deserialize, Serialize};
 
 pub use activity::ActivityModel;
+pub use speciation::{ComplexAmount, IonAmount, Saturation, Speciation, speciation};
 pub use species::SystemState;
 
-use crate::library::Library;
+use crate::library::{Library, PitzerTable, Species};
 
 /// 0 °C in kelvin.
 pub const KELVIN_OFFSET: f64 = 273.15;
@@ -66,6 +71,44 @@ pub struct Constants {
     ka_start: Vec<usize>,
     /// Thermodynamic Ka values of every step of every system, at the temperature.
     ka: Vec<f64>,
+    /// Every library complex at the temperature, in library order.
+    pub(crate) complexes: Vec<ComplexConstant>,
+    /// Every library solid at the temperature, in library order.
+    pub(crate) solids: Vec<SolidConstant>,
+    /// The library's Pitzer parameters.
+    pub(crate) pitzer: PitzerTable,
+    /// Charge of every library ion.
+    pub(crate) ion_charges: Vec<i32>,
+    /// Ids of the library ions and systems, for naming species.
+    pub(crate) ion_ids: Vec<String>,
+    pub(crate) system_ids: Vec<String>,
+    /// Index of hydroxide among the ions.
+    pub(crate) hydroxide: usize,
+    /// Index of hydron among the ions.
+    pub(crate) hydron: usize,
+    /// NaCl's β⁽⁰⁾, β⁽¹⁾, C^φ, for the fallback of the Pitzer model.
+    pub(crate) pitzer_reference: [f64; 3],
+}
+
+/// A complex's constant at a temperature, with its metal and ligand.
+#[derive(Debug, Clone, PartialEq)]
+pub(crate) struct ComplexConstant {
+    pub id: String,
+    pub metal: usize,
+    pub ligand: Species,
+    pub charge: i32,
+    /// Thermodynamic formation constant (I = 0) at the temperature.
+    pub k: f64,
+    /// Whether the Pitzer table has a pair for the metal and ligand (which then holds the pairing).
+    pub in_pitzer: bool,
+}
+
+/// A solid's solubility product at a temperature.
+#[derive(Debug, Clone, PartialEq)]
+pub(crate) struct SolidConstant {
+    pub id: String,
+    pub components: Vec<(Species, f64)>,
+    pub log_ksp: f64,
 }
 
 impl Constants {
@@ -91,6 +134,44 @@ impl Constants {
             }
         }
         ka_start.push(ka.len());
+        let pitzer = library.pitzer().clone();
+        let complexes = library
+            .complexes()
+            .iter()
+            .map(|c| {
+                // log K(I) = log K° − A·f(I)·(z_M² + z_L² − z_ML²), as for the pKa values.
+                let z_m = library.ions()[c.metal].charge;
+                let z_l = library.species_charge(c.ligand);
+                let f = activity::davies_function(c.data.ionic_strength);
+                let log_k0 = c.data.log_k + a25 * f * f64::from(z_m * z_m + z_l * z_l - c.charge * c.charge);
+                let log_k = -temperature::pka_at(-log_k0, c.data.dh_kj_mol, 0.0, temp_k);
+                ComplexConstant {
+                    id: c.data.id.clone(),
+                    metal: c.metal,
+                    ligand: c.ligand,
+                    charge: c.charge,
+                    k: 10f64.powf(log_k),
+                    in_pitzer: pitzer
+                        .pairs
+                        .iter()
+                        .any(|(m, l, _)| *m == Species::Ion(c.metal) && *l == c.ligand),
+                }
+            })
+            .collect();
+        let solids = library
+            .solids()
+            .iter()
+            .map(|s| SolidConstant {
+                id: s.data.id.clone(),
+                components: s.components.clone(),
+                log_ksp: -temperature::pka_at(-s.data.log_ksp, s.data.dh_kj_mol, 0.0, temp_k),
+            })
+            .collect();
+        let reference = library
+            .species("sodium")
+            .zip(library.species("chloride"))
+            .and_then(|(na, cl)| pitzer.pairs.iter().find(|(c, a, _)| *c == na && *a == cl))
+            .map_or([0.0; 3], |(_, _, p)| [p.beta0, p.beta1, p.c_phi]);
         Self {
             conditions,
             kw: 10f64.powf(-water::pkw(conditions.temp_c)),
@@ -98,7 +179,23 @@ impl Constants {
             z0,
             ka_start,
             ka,
+            complexes,
+            solids,
+            pitzer,
+            ion_charges: library.ions().iter().map(|i| i.charge).collect(),
+            ion_ids: library.ions().iter().map(|i| i.id.clone()).collect(),
+            system_ids: library.systems().iter().map(|s| s.id.clone()).collect(),
+            hydroxide: library.hydroxide(),
+            hydron: library.hydron(),
+            pitzer_reference: reference,
         }
+    }
+
+    /// The same constants under another activity model.
+    pub fn with_activity(&self, activity: ActivityModel) -> Self {
+        let mut c = self.clone();
+        c.conditions.activity = activity;
+        c
     }
 
     /// Thermodynamic Ka values of one system at this temperature.
@@ -128,6 +225,9 @@ pub struct Composition {
     pub spectator_z2: f64,
     /// Σ |z|·m over spectator ions, mol/kg (the scale of the charge balance).
     pub spectator_abs_charge: f64,
+    /// Molality of each ion other than H⁺ and OH⁻, by library ion index (its charge is in the
+    /// spectator sums; charge in the sums beyond these ions is treated as a 1:1 background).
+    pub ions: Vec<(usize, f64)>,
     /// Protons in excess of the reference levels (fully protonated systems, neutral water), mol/kg.
     pub proton_excess: f64,
 }
@@ -164,12 +264,20 @@ pub struct Solution {
     pub charge_residual: f64,
     /// Proton-balance residual relative to the larger of its own terms and the charge-balance scale.
     pub proton_residual: f64,
+    /// Largest metal-balance residual relative to the metal's total (0 without complexes).
+    pub metal_residual: f64,
     /// Newton iterations in total.
     pub iterations: u32,
     /// Outer (ionic strength) iterations.
     pub outer_iterations: u32,
     /// How the solve ended.
     pub status: SolveStatus,
+    /// The activity model the coefficients came from.
+    pub activity: ActivityModel,
+    /// Activity coefficient of every species of the composition, in the solver's order.
+    pub gamma: Vec<f64>,
+    /// ln free molality of each metal that complexes bind, in the solver's order.
+    pub free_metals: Vec<f64>,
 }
 
 impl Solution {
@@ -188,18 +296,34 @@ pub struct Guess {
     pub ionic_strength: f64,
 }
 
-/// Solves the charge balance for pH, with the ionic strength made self-consistent.
+/// Solves the charge balance for pH, with the activity coefficients made self-consistent.
 pub fn solve(constants: &Constants, composition: &Composition, guess: Option<Guess>) -> Solution {
+    let mut model = balance::ChargeBalance::new(constants, composition);
+    let start_ionic = guess
+        .map_or(0.5 * composition.spectator_z2, |g| g.ionic_strength)
+        .max(0.0);
+    let start_ph = guess.map_or(7.0, |g| g.ph);
+    if model.is_pitzer() {
+        solve_pitzer(&mut model, start_ph, start_ionic)
+    } else {
+        solve_by_charge(&mut model, constants, start_ph, start_ionic)
+    }
+}
+
+/// Davies or ideal: the fixed point of the ionic strength, by secant steps.
+fn solve_by_charge(
+    model: &mut balance::ChargeBalance<'_>,
+    constants: &Constants,
+    start_ph: f64,
+    start_ionic: f64,
+) -> Solution {
     const MAX_OUTER: u32 = 60;
     // Self-consistency of I to 1e-10 relative moves pH by under 1e-10; the charge balance itself
     // is closed exactly at the activity coefficients of the final I.
     const IONIC_TOL: f64 = 1e-10;
-    let mut model = balance::ChargeBalance::new(constants, composition);
     let ideal = constants.conditions.activity == ActivityModel::Ideal;
-    let mut ionic = guess
-        .map_or(0.5 * composition.spectator_z2, |g| g.ionic_strength)
-        .max(0.0);
-    let mut ph = guess.map_or(7.0, |g| g.ph);
+    let mut ionic = start_ionic;
+    let mut ph = start_ph;
     let mut iterations = 0;
     let mut outer = 0;
     let mut status = SolveStatus::NotConverged;
@@ -244,14 +368,65 @@ pub fn solve(constants: &Constants, composition: &Composition, guess: Option<Gue
         } else {
             plain
         };
+        evaluated = None;
     }
-    model.finish(ph, ionic, evaluated, iterations, outer, status)
+    model.set_ionic_strength(ionic);
+    model.finish(ph, evaluated, iterations, outer, status)
+}
+
+/// Pitzer: the fixed point of every activity coefficient, by damped substitution in ln γ.
+fn solve_pitzer(model: &mut balance::ChargeBalance<'_>, start_ph: f64, start_ionic: f64) -> Solution {
+    const MAX_OUTER: u32 = 200;
+    // ln γ self-consistent to 1e-12 moves pH by under 1e-12.
+    const LN_GAMMA_TOL: f64 = 1e-12;
+    model.set_ionic_strength(start_ionic);
+    let mut ph = start_ph;
+    let mut iterations = 0;
+    let mut outer = 0;
+    let mut status = SolveStatus::NotConverged;
+    let mut evaluated = None;
+    let mut damping: f64 = 1.0;
+    let mut last_change = f64::INFINITY;
+    while outer < MAX_OUTER {
+        outer += 1;
+        let inner = newton::solve_bracketed(|x| model.evaluate(x), ph, PH_MIN, PH_MAX);
+        iterations += inner.iterations;
+        ph = inner.x;
+        evaluated = inner.at_x;
+        let next = model.model_gammas(ph);
+        let change = next
+            .iter()
+            .zip(model.gammas())
+            .map(|(a, b)| (a.ln() - b.ln()).abs())
+            .fold(0.0, f64::max);
+        if inner.status != newton::Status::Converged && change <= LN_GAMMA_TOL {
+            status = status_of(inner.status);
+            break;
+        }
+        if change <= LN_GAMMA_TOL {
+            status = SolveStatus::Converged;
+            break;
+        }
+        if change > last_change {
+            damping = (damping * 0.5).max(0.05);
+        }
+        last_change = change;
+        let blended = next
+            .iter()
+            .zip(model.gammas())
+            .map(|(a, b)| (b.ln() + damping * (a.ln() - b.ln())).exp())
+            .collect();
+        model.set_gammas(blended);
+        evaluated = None;
+    }
+    model.finish(ph, evaluated, iterations, outer, status)
 }
 
 /// Solves the charge balance for pH with the activity coefficients held at a given ionic strength.
 ///
 /// The reported `ionic_strength` is that of the species found, which differs from the one given
 /// unless it was self-consistent; the buffer capacity is exactly the derivative of this balance.
+/// Under the Pitzer model the coefficients held are those of a solved state at this composition.
 pub fn solve_at_ionic_strength(
     constants: &Constants,
     composition: &Composition,
@@ -259,8 +434,7 @@ pub fn solve_at_ionic_strength(
     guess_ph: Option<f64>,
 ) -> Solution {
     let mut model = balance::ChargeBalance::new(constants, composition);
-    let ionic = ionic_strength.max(0.0);
-    model.set_ionic_strength(ionic);
+    model.set_ionic_strength(ionic_strength.max(0.0));
     let inner = newton::solve_bracketed(
         |x| model.evaluate(x),
         guess_ph.unwrap_or(7.0),
@@ -268,7 +442,7 @@ pub fn solve_at_ionic_strength(
         PH_MAX,
     );
     let status = status_of(inner.status);
-    model.finish(inner.x, ionic, inner.at_x, inner.iterations, 1, status)
+    model.finish(inner.x, inner.at_x, inner.iterations, 1, status)
 }
 
 /// How a solve ended, from how its inner Newton iteration ended.
@@ -287,11 +461,32 @@ pub fn system_states(
     composition: &Composition,
     solution: &Solution,
 ) -> Vec<SystemState> {
-    let gammas = species::Gammas::new(constants, solution.ionic_strength);
+    let mut model = balance::ChargeBalance::new(constants, composition);
+    if solution.gamma.len() == model.gammas().len() {
+        model.set_gammas(solution.gamma.clone());
+    } else {
+        model.set_ionic_strength(solution.ionic_strength);
+    }
+    model.set_free_metals(&solution.free_metals);
+    let m = model.molalities(solution.ph);
+    let (layout, _, _) = model.parts();
     composition
         .systems
         .iter()
-        .map(|&(system, total)| species::state(constants, system, total, solution.ph, &gammas))
+        .enumerate()
+        .map(|(slot, &(system, total))| {
+            let forms = layout.form_start[slot]..layout.form_start[slot + 1];
+            let fractions: Vec<f64> = m[forms].iter().map(|x| x / total).collect();
+            let bound = (1.0 - fractions.iter().sum::<f64>()).max(0.0);
+            let z0 = constants.z0(system);
+            SystemState {
+                system,
+                total,
+                charges: (0..fractions.len()).map(|j| z0 - j as i32).collect(),
+                fractions,
+                bound,
+            }
+        })
         .collect()
 }
 

@@ -40,8 +40,10 @@ pub struct SystemState {
     pub system: usize,
     /// Total molality of the system.
     pub total: f64,
-    /// Fraction of each form, fully protonated first.
+    /// Fraction of each free form, fully protonated first (they sum to 1 less the bound fraction).
     pub fractions: Vec<f64>,
+    /// Fraction bound in complexes with metal ions.
+    pub bound: f64,
     /// Charge of each form.
     pub charges: Vec<i32>,
 }
@@ -137,6 +139,7 @@ pub fn state(
         system,
         total,
         fractions: t.iter().map(|x| x / sum).collect(),
+        bound: 0.0,
         charges: (0..t.len()).map(|j| z0 - j as i32).collect(),
     }
 }

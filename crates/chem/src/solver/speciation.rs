@@ -1,0 +1,173 @@
+//! The full speciation of a solved state: every ion with its activity coefficient, the
+//! complexes, and the saturation index of every solid whose ions are present.
+
+use super::balance::ChargeBalance;
+use super::layout::{self, H, OH};
+use super::{Composition, Constants, Solution};
+
+/// One free ion or form as the activity model treats it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct IonAmount {
+    /// Library ion id, `SYSTEM/FORM`, a complex id, or `background` for charge given without an ion.
+    pub id: String,
+    /// Charge.
+    pub charge: i32,
+    /// Molality, mol/kg water.
+    pub molality: f64,
+    /// Activity coefficient.
+    pub gamma: f64,
+    /// Whether γ came from the charge-based estimate (no Pitzer parameters for it).
+    pub fallback: bool,
+}
+
+/// One complex and its molality.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ComplexAmount {
+    /// Library complex id.
+    pub id: String,
+    /// The metal ion's id.
+    pub metal: String,
+    /// The ligand: `hydroxide` or `SYSTEM/FORM`.
+    pub ligand: String,
+    /// Charge of the complex.
+    pub charge: i32,
+    /// Molality, mol/kg water.
+    pub molality: f64,
+}
+
+/// The saturation of one solid.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Saturation {
+    /// Mineral or chemical name.
+    pub solid: String,
+    /// log10(ion activity product / Ksp): above 0 the solution is supersaturated.
+    pub saturation_index: f64,
+}
+
+/// Everything the activity model and the complexes give at a solved state.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Speciation {
+    /// Every free ion and form (and neutral form) with molality and γ.
+    pub ions: Vec<IonAmount>,
+    /// Complexes and ion pairs taking part.
+    pub complexes: Vec<ComplexAmount>,
+    /// Solids whose every component is present.
+    pub saturation: Vec<Saturation>,
+    /// Osmotic coefficient, under the Pitzer model.
+    pub osmotic: Option<f64>,
+}
+
+impl Speciation {
+    /// Ids of the charged species whose activity came from the fallback estimate.
+    pub fn fallback_ions(&self) -> Vec<String> {
+        self.ions
+            .iter()
+            .filter(|i| i.fallback)
+            .map(|i| i.id.clone())
+            .collect()
+    }
+
+    /// Free molality of an ion by id (0 when absent).
+    pub fn free(&self, id: &str) -> f64 {
+        self.ions
+            .iter()
+            .find(|i| i.id == id)
+            .map_or(0.0, |i| i.molality)
+    }
+
+    /// Saturation index of a solid by id, when its components are present.
+    pub fn saturation_index(&self, solid: &str) -> Option<f64> {
+        self.saturation
+            .iter()
+            .find(|s| s.solid == solid)
+            .map(|s| s.saturation_index)
+    }
+}
+
+/// The speciation of a solved composition.
+pub fn speciation(constants: &Constants, composition: &Composition, solution: &Solution) -> Speciation {
+    let mut model = ChargeBalance::new(constants, composition);
+    if solution.gamma.len() == model.gammas().len() {
+        model.set_gammas(solution.gamma.clone());
+    } else {
+        model.set_ionic_strength(solution.ionic_strength);
+    }
+    model.set_free_metals(&solution.free_metals);
+    let m = model.molalities(solution.ph);
+    let gamma = model.gammas().to_vec();
+    let (layout, binding, pitzer) = model.parts();
+    let mut names = vec![String::new(); layout.len()];
+    names[H] = constants.ion_ids[constants.hydron].clone();
+    names[OH] = constants.ion_ids[constants.hydroxide].clone();
+    for (slot, &ion) in layout.ions.iter().enumerate() {
+        names[layout.ion(slot)] = constants.ion_ids[ion].clone();
+    }
+    for (slot, &(system, _)) in composition.systems.iter().enumerate() {
+        for p in layout.form_start[slot]..layout.form_start[slot + 1] {
+            names[p] = format!("{}/{}", constants.system_ids[system], p - layout.form_start[slot]);
+        }
+    }
+    let mut complexes = Vec::new();
+    for (k, b) in binding.complexes.iter().enumerate() {
+        let c = &constants.complexes[b.constant];
+        let p = layout.complex_start + k;
+        names[p] = c.id.clone();
+        complexes.push(ComplexAmount {
+            id: c.id.clone(),
+            metal: constants.ion_ids[c.metal].clone(),
+            ligand: species_name(constants, c.ligand),
+            charge: c.charge,
+            molality: m[p],
+        });
+    }
+    names[layout.unattributed] = "background".into();
+    let mut ions = Vec::new();
+    for (p, name) in names.iter().enumerate() {
+        if p >= layout.complex_start && p < layout.unattributed {
+            continue;
+        }
+        if p == layout.unattributed && m[p] <= 1e-12 * (1.0 + composition.spectator_abs_charge) {
+            continue;
+        }
+        ions.push(IonAmount {
+            id: name.clone(),
+            charge: layout.charges[p],
+            molality: m[p],
+            gamma: gamma[p],
+            fallback: pitzer.is_some_and(|model| layout::is_fallback(model, p)),
+        });
+    }
+    let mut saturation = Vec::new();
+    'solids: for s in &constants.solids {
+        let mut log_iap = 0.0;
+        for &(sp, count) in &s.components {
+            let Some(p) = layout.position(constants, composition, sp) else {
+                continue 'solids;
+            };
+            if m[p] <= 0.0 {
+                continue 'solids;
+            }
+            log_iap += count * (m[p] * gamma[p]).log10();
+        }
+        saturation.push(Saturation {
+            solid: s.id.clone(),
+            saturation_index: log_iap - s.log_ksp,
+        });
+    }
+    let osmotic = pitzer.map(|model| model.evaluate(layout::a_phi(constants), &m).osmotic);
+    Speciation {
+        ions,
+        complexes,
+        saturation,
+        osmotic,
+    }
+}
+
+fn species_name(constants: &Constants, species: crate::library::Species) -> String {
+    match species {
+        crate::library::Species::Ion(i) => constants.ion_ids[i].clone(),
+        crate::library::Species::Form { system, form } => {
+            format!("{}/{form}", constants.system_ids[system])
+        }
+    }
+}
