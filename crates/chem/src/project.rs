@@ -65,7 +65,7 @@ impl Default for Settings {
     fn default() -> Self {
         Self {
             temp_c: 25.0,
-            activity: ActivityModel::Davies,
+            activity: ActivityModel::Auto,
             adjuster: "sodium_hydroxide_50".into(),
             dose_max_g: 10.0,
             target_ph: None,

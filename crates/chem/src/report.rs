@@ -3,7 +3,10 @@
 use crate::error::RecipeError;
 use crate::library::Library;
 use crate::recipe::{Batch, Recipe};
-use crate::solver::{self, Composition, Conditions, Constants, Solution, SolveStatus, SystemState};
+use crate::solver::{
+    self, ActivityModel, Composition, Conditions, Constants, Solution, SolveStatus, Speciation,
+    SystemState,
+};
 
 /// Everything known about a recipe at some conditions.
 #[derive(Debug, Clone, PartialEq)]
@@ -18,6 +21,8 @@ pub struct Report {
     pub solution: Solution,
     /// Every form of every system present.
     pub systems: Vec<SystemState>,
+    /// Every ion with its activity coefficient, the complexes and the saturation indices.
+    pub speciation: Speciation,
     /// Validity warnings in plain words (model range, pH range, convergence).
     pub warnings: Vec<String>,
 }
@@ -52,28 +57,73 @@ pub fn evaluate_with(
     let composition = batch.composition(library)?;
     let solution = solver::solve(constants, &composition, None);
     let systems = solver::system_states(constants, &composition, &solution);
-    let warnings = warnings(constants, &solution);
+    let speciation = solver::speciation(constants, &composition, &solution);
+    let warnings = warnings(constants, &composition, &solution, &speciation);
     Ok(Report {
         conditions: constants.conditions,
         batch,
         composition,
         solution,
         systems,
+        speciation,
         warnings,
     })
 }
 
-/// Plain-words warnings about where a solved state stands against the model's validity.
-pub fn warnings(constants: &Constants, solution: &Solution) -> Vec<String> {
+/// Plain-words warnings about where a solved state stands against the model's validity: the
+/// ionic strength against the limit of the model used for the charges present, ions whose
+/// activity came from the fallback estimate, and the temperature of the Pitzer parameters.
+pub fn warnings(
+    constants: &Constants,
+    composition: &Composition,
+    solution: &Solution,
+    speciation: &Speciation,
+) -> Vec<String> {
     let mut w = Vec::new();
-    let model = constants.conditions.activity;
-    let limit = model.max_ionic_strength();
-    if solution.ionic_strength > limit {
-        w.push(format!(
-            "ionic strength {:.3} mol/kg water is above {limit} mol/kg water, the usual limit of the {} activity model: treat the pH as indicative",
-            solution.ionic_strength,
-            model.label()
-        ));
+    let model = solution.activity;
+    let ionic = solution.ionic_strength;
+    match model {
+        ActivityModel::Davies => {
+            let z = solver::largest_significant_charge(constants, composition, solution);
+            let limit = ActivityModel::davies_limit(z);
+            if ionic > limit {
+                w.push(format!(
+                    "ionic strength {ionic:.3} mol/kg water is above {limit} mol/kg water, where the Davies model holds with ions of charge {z} present: treat the pH as indicative, or choose the Pitzer model"
+                ));
+            }
+        }
+        _ => {
+            let limit = model.max_ionic_strength();
+            if ionic > limit {
+                w.push(format!(
+                    "ionic strength {ionic:.3} mol/kg water is above {limit} mol/kg water, the usual limit of the {} activity model: treat the pH as indicative",
+                    model.label()
+                ));
+            }
+        }
+    }
+    if model == ActivityModel::Pitzer {
+        let share: f64 = speciation
+            .ions
+            .iter()
+            .filter(|i| i.fallback)
+            .map(|i| 0.5 * f64::from(i.charge * i.charge) * i.molality)
+            .sum::<f64>()
+            / ionic.max(f64::MIN_POSITIVE);
+        let ids = speciation.fallback_ions();
+        if !ids.is_empty() && share > 0.1 && ionic > 0.1 {
+            w.push(format!(
+                "no published Pitzer parameters for {}: their activity is a charge-based estimate (they carry {:.0} % of the ionic strength), so treat the pH as indicative",
+                ids.join(", "),
+                share * 100.0
+            ));
+        }
+        if (constants.conditions.temp_c - 25.0).abs() > 10.0 {
+            w.push(format!(
+                "the Pitzer parameters are for 25 °C; at {:.0} °C only their Debye–Hückel term follows the temperature",
+                constants.conditions.temp_c
+            ));
+        }
     }
     match solution.status {
         SolveStatus::Converged => {}

@@ -38,8 +38,12 @@ pub enum Command {
 /// The activity model named on the command line.
 #[derive(Debug, Clone, Copy, ValueEnum)]
 pub enum Activity {
+    /// Davies where it holds for the ionic strength and charges, Pitzer beyond (the default).
+    Auto,
     /// Davies equation with A(T).
     Davies,
+    /// Pitzer equations with the library's parameters (concentrates, to 6 mol/kg).
+    Pitzer,
     /// Activity coefficients of 1.
     Ideal,
 }
@@ -60,7 +64,7 @@ pub struct RecipeArgs {
     /// Temperature in °C (0–95); default 25, or the project's.
     #[arg(long, value_name = "C")]
     pub temp: Option<f64>,
-    /// Activity model; default davies, or the project's.
+    /// Activity model; default auto, or the project's.
     #[arg(long, value_enum)]
     pub activity: Option<Activity>,
     /// Print JSON instead of text.

@@ -79,7 +79,9 @@ pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
     }
     if let Some(a) = args.activity {
         conditions.activity = match a {
+            Activity::Auto => ActivityModel::Auto,
             Activity::Davies => ActivityModel::Davies,
+            Activity::Pitzer => ActivityModel::Pitzer,
             Activity::Ideal => ActivityModel::Ideal,
         };
     }

@@ -230,6 +230,7 @@ fn build(form: &CustomForm, library: &Library) -> Result<(System, Ingredient), S
             systems: vec![system.clone()],
             ions: Vec::new(),
             ingredients: vec![ingredient.clone()],
+            ..Default::default()
         })
         .map_err(|e| e.to_string())?;
     Ok((system, ingredient))

@@ -104,7 +104,7 @@ fn values_ui(ui: &mut Ui, settings: &Settings, engine: &Engine) {
                     .on_hover_text("−log m(H⁺): the hydrogen-ion molality itself, without the activity coefficient");
                 ui.end_row();
                 ui.label("Ionic strength");
-                let limit = report.conditions.activity.max_ionic_strength();
+                let limit = s.activity.max_ionic_strength();
                 let text = RichText::new(format!("{} mol/kg water", sig(s.ionic_strength, 3))).size(18.0);
                 if s.ionic_strength > limit {
                     ui.label(text.color(super::WARN)).on_hover_text(format!(
@@ -174,7 +174,12 @@ fn conditions_ui(ui: &mut Ui, settings: &mut Settings, refused: &mut Refusals) {
             let response = egui::ComboBox::from_id_salt("activity_model")
                 .selected_text(activity_words(settings.activity))
                 .show_ui(ui, |ui| {
-                    for m in [ActivityModel::Davies, ActivityModel::Ideal] {
+                    for m in [
+                        ActivityModel::Auto,
+                        ActivityModel::Davies,
+                        ActivityModel::Pitzer,
+                        ActivityModel::Ideal,
+                    ] {
                         ui.selectable_value(&mut settings.activity, m, activity_words(m));
                     }
                 })
@@ -229,7 +234,9 @@ fn conditions_ui(ui: &mut Ui, settings: &mut Settings, refused: &mut Refusals) {
 
 fn activity_words(model: ActivityModel) -> &'static str {
     match model {
+        ActivityModel::Auto => "automatic (Davies, or Pitzer for concentrates)",
         ActivityModel::Davies => "Davies (to 0.5 mol/kg water)",
+        ActivityModel::Pitzer => "Pitzer (concentrates, to 6 mol/kg water)",
         ActivityModel::Ideal => "ideal (dilute only)",
     }
 }

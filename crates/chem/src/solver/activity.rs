@@ -8,22 +8,39 @@ use super::water;
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default, Serialize, Deserialize)]
 pub enum ActivityModel {
     /// Davies (1962): log γ = −A z² (√I/(1+√I) − 0.3 I).
-    #[default]
     Davies,
     /// All activity coefficients 1.
     Ideal,
     /// The Pitzer equations with the library's parameters (concentrates, to 6 mol/kg).
     Pitzer,
+    /// Davies where it holds for the ionic strength and charges present, Pitzer beyond.
+    #[default]
+    Auto,
 }
 
 impl ActivityModel {
+    /// The model a single solve uses: `Auto` starts as Davies.
+    pub fn fixed(self) -> Self {
+        match self {
+            Self::Auto => Self::Davies,
+            m => m,
+        }
+    }
+
+    /// Highest ionic strength (mol/kg) at which Davies holds for the largest charge present:
+    /// 0.5 for ions of charge 1 and 2, 0.1 once ions of charge 3 or more carry a tenth of the
+    /// ionic strength (common practice, no source).
+    pub fn davies_limit(max_charge: i32) -> f64 {
+        if max_charge >= 3 { 0.1 } else { 0.5 }
+    }
+
     /// Highest ionic strength (mol/kg) at which the model is usually trusted (common practice, no source).
     pub fn max_ionic_strength(self) -> f64 {
         match self {
             Self::Davies => 0.5,
             Self::Ideal => 0.01,
             // Pitzer & Mayorga's and Harvie, Møller & Weare's fits reach 6 mol/kg (from memory).
-            Self::Pitzer => 6.0,
+            Self::Pitzer | Self::Auto => 6.0,
         }
     }
 
@@ -33,6 +50,7 @@ impl ActivityModel {
             Self::Davies => "Davies",
             Self::Ideal => "ideal",
             Self::Pitzer => "Pitzer",
+            Self::Auto => "automatic",
         }
     }
 
@@ -42,6 +60,7 @@ impl ActivityModel {
             Self::Davies => "davies",
             Self::Ideal => "ideal",
             Self::Pitzer => "pitzer",
+            Self::Auto => "auto",
         }
     }
 }
@@ -67,7 +86,7 @@ pub fn log_gamma(model: ActivityModel, a: f64, z: i32, davies_f: f64) -> f64 {
         ActivityModel::Davies => -a * f64::from(z * z) * davies_f,
         ActivityModel::Ideal => 0.0,
         // By charge, the Pitzer model starts from Davies; its own coefficients are per species.
-        ActivityModel::Pitzer => -a * f64::from(z * z) * davies_f,
+        ActivityModel::Pitzer | ActivityModel::Auto => -a * f64::from(z * z) * davies_f,
     }
 }
 

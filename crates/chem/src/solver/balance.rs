@@ -35,6 +35,7 @@ pub struct Evaluation {
 pub struct ChargeBalance<'a> {
     constants: &'a Constants,
     composition: &'a Composition,
+    model: ActivityModel,
     layout: Layout,
     binding: Binding,
     pitzer: Option<Model>,
@@ -54,9 +55,18 @@ pub struct ChargeBalance<'a> {
 impl<'a> ChargeBalance<'a> {
     /// The balance of a composition under some constants, at I = 0 until set.
     pub fn new(constants: &'a Constants, composition: &'a Composition) -> Self {
-        let binding = Binding::new(constants, composition);
+        Self::with_model(constants, composition, constants.conditions.activity.fixed())
+    }
+
+    /// The balance under a given activity model (not `Auto`).
+    pub fn with_model(
+        constants: &'a Constants,
+        composition: &'a Composition,
+        model: ActivityModel,
+    ) -> Self {
+        let binding = Binding::new(constants, composition, model);
         let layout = Layout::new(constants, composition, &binding);
-        let pitzer = (constants.conditions.activity == ActivityModel::Pitzer)
+        let pitzer = (model == ActivityModel::Pitzer)
             .then(|| layout.pitzer_model(constants, composition));
         let steps = composition
             .systems
@@ -67,6 +77,7 @@ impl<'a> ChargeBalance<'a> {
         let mut b = Self {
             constants,
             composition,
+            model,
             gamma: vec![1.0; layout.len()],
             layout,
             pitzer,
@@ -87,7 +98,7 @@ impl<'a> ChargeBalance<'a> {
         if ionic_strength.to_bits() == self.ionic.to_bits() {
             return;
         }
-        let g = self.layout.by_charge(self.constants, ionic_strength);
+        let g = self.layout.by_charge(self.constants, ionic_strength, self.model);
         self.set_gammas(g);
         self.ionic = ionic_strength;
     }
@@ -128,7 +139,13 @@ impl<'a> ChargeBalance<'a> {
     /// The coefficients the activity model gives at the species of a pH (layout order).
     pub fn model_gammas(&mut self, ph: f64) -> Vec<f64> {
         let m = self.molalities(ph);
-        layout::coefficients(self.constants, &self.layout, self.pitzer.as_ref(), &m)
+        layout::coefficients(
+            self.constants,
+            &self.layout,
+            self.pitzer.as_ref(),
+            self.model,
+            &m,
+        )
     }
 
     /// Starts the metal balances from these ln free molalities.
@@ -346,7 +363,7 @@ impl<'a> ChargeBalance<'a> {
             iterations,
             outer_iterations: outer,
             status,
-            activity: self.constants.conditions.activity,
+            activity: self.model,
             gamma: self.gamma.clone(),
             free_metals: self.u.clone(),
         }

@@ -60,8 +60,8 @@ pub struct Binding {
 impl Binding {
     /// The complexes whose metal and ligand the composition holds; under the Pitzer model, the
     /// pairs its parameters already hold are left out.
-    pub fn new(constants: &Constants, composition: &Composition) -> Self {
-        let pitzer = constants.conditions.activity == ActivityModel::Pitzer;
+    pub fn new(constants: &Constants, composition: &Composition, model: ActivityModel) -> Self {
+        let pitzer = model == ActivityModel::Pitzer;
         let mut b = Binding {
             by_slot: vec![Vec::new(); composition.systems.len()],
             ..Binding::default()

@@ -96,8 +96,13 @@ impl Layout {
     }
 
     /// Activity coefficients of every position from the charge alone (Davies or ideal).
-    pub fn by_charge(&self, constants: &Constants, ionic_strength: f64) -> Vec<f64> {
-        let g = Gammas::new(constants, ionic_strength);
+    pub fn by_charge(
+        &self,
+        constants: &Constants,
+        ionic_strength: f64,
+        model: ActivityModel,
+    ) -> Vec<f64> {
+        let g = Gammas::with_model(constants, ionic_strength, model);
         self.charges.iter().map(|&z| g.of(z)).collect()
     }
 
@@ -138,11 +143,13 @@ impl Layout {
     }
 }
 
-/// Activity coefficients of every position under the constants' model, at given molalities.
+/// Activity coefficients of every position, at given molalities: Pitzer when its model is
+/// given, otherwise by charge under `by_charge`.
 pub fn coefficients(
     constants: &Constants,
     layout: &Layout,
     model: Option<&Model>,
+    by_charge: ActivityModel,
     molality: &[f64],
 ) -> Vec<f64> {
     let ionic: f64 = 0.5
@@ -152,8 +159,8 @@ pub fn coefficients(
             .zip(molality)
             .map(|(&z, &m)| f64::from(z * z) * m)
             .sum::<f64>();
-    match (constants.conditions.activity, model) {
-        (ActivityModel::Pitzer, Some(model)) => {
+    match model {
+        Some(model) => {
             let a_phi = a_phi(constants);
             model
                 .evaluate(a_phi, molality)
@@ -162,7 +169,7 @@ pub fn coefficients(
                 .map(|lg| lg.exp())
                 .collect()
         }
-        _ => layout.by_charge(constants, ionic),
+        None => layout.by_charge(constants, ionic, by_charge),
     }
 }
 

@@ -51,7 +51,7 @@ impl Default for Conditions {
     fn default() -> Self {
         Self {
             temp_c: 25.0,
-            activity: ActivityModel::Davies,
+            activity: ActivityModel::Auto,
         }
     }
 }
@@ -297,8 +297,71 @@ pub struct Guess {
 }
 
 /// Solves the charge balance for pH, with the activity coefficients made self-consistent.
+///
+/// Under [`ActivityModel::Auto`] the state is solved with Davies and kept if Davies holds for
+/// its ionic strength and charges ([`davies_holds`]), and solved again with Pitzer otherwise;
+/// a curve should fix the model its first point chose (`Solution::activity`), so that it stays
+/// continuous.
 pub fn solve(constants: &Constants, composition: &Composition, guess: Option<Guess>) -> Solution {
-    let mut model = balance::ChargeBalance::new(constants, composition);
+    let requested = constants.conditions.activity;
+    let first = solve_with(constants, composition, guess, requested.fixed());
+    if requested != ActivityModel::Auto || davies_holds(constants, composition, &first) {
+        return first;
+    }
+    let from = Guess {
+        ph: first.ph,
+        ionic_strength: first.ionic_strength,
+    };
+    solve_with(constants, composition, Some(from), ActivityModel::Pitzer)
+}
+
+/// Whether Davies holds at a solved state: its ionic strength within the limit for the
+/// largest charge that carries a tenth of the ionic strength.
+pub fn davies_holds(constants: &Constants, composition: &Composition, solution: &Solution) -> bool {
+    if solution.ionic_strength <= 0.1 {
+        return true;
+    }
+    let z = largest_significant_charge(constants, composition, solution);
+    solution.ionic_strength <= ActivityModel::davies_limit(z)
+}
+
+/// Largest |z| among the species carrying at least a tenth of the ionic strength.
+pub fn largest_significant_charge(
+    constants: &Constants,
+    composition: &Composition,
+    solution: &Solution,
+) -> i32 {
+    let mut model = balance::ChargeBalance::with_model(constants, composition, solution.activity);
+    if solution.gamma.len() == model.gammas().len() {
+        model.set_gammas(solution.gamma.clone());
+    }
+    model.set_free_metals(&solution.free_metals);
+    let m = model.molalities(solution.ph);
+    let (layout, _, _) = model.parts();
+    let ionic: f64 = layout
+        .charges
+        .iter()
+        .zip(&m)
+        .map(|(&z, &x)| 0.5 * f64::from(z * z) * x)
+        .sum();
+    layout
+        .charges
+        .iter()
+        .zip(&m)
+        .filter(|&(&z, &x)| 0.5 * f64::from(z * z) * x >= 0.1 * ionic)
+        .map(|(&z, _)| z.abs())
+        .max()
+        .unwrap_or(1)
+}
+
+/// Solves under one activity model (not `Auto`).
+fn solve_with(
+    constants: &Constants,
+    composition: &Composition,
+    guess: Option<Guess>,
+    activity: ActivityModel,
+) -> Solution {
+    let mut model = balance::ChargeBalance::with_model(constants, composition, activity);
     let start_ionic = guess
         .map_or(0.5 * composition.spectator_z2, |g| g.ionic_strength)
         .max(0.0);
@@ -306,14 +369,14 @@ pub fn solve(constants: &Constants, composition: &Composition, guess: Option<Gue
     if model.is_pitzer() {
         solve_pitzer(&mut model, start_ph, start_ionic)
     } else {
-        solve_by_charge(&mut model, constants, start_ph, start_ionic)
+        solve_by_charge(&mut model, activity, start_ph, start_ionic)
     }
 }
 
 /// Davies or ideal: the fixed point of the ionic strength, by secant steps.
 fn solve_by_charge(
     model: &mut balance::ChargeBalance<'_>,
-    constants: &Constants,
+    activity: ActivityModel,
     start_ph: f64,
     start_ionic: f64,
 ) -> Solution {
@@ -321,7 +384,7 @@ fn solve_by_charge(
     // Self-consistency of I to 1e-10 relative moves pH by under 1e-10; the charge balance itself
     // is closed exactly at the activity coefficients of the final I.
     const IONIC_TOL: f64 = 1e-10;
-    let ideal = constants.conditions.activity == ActivityModel::Ideal;
+    let ideal = activity == ActivityModel::Ideal;
     let mut ionic = start_ionic;
     let mut ph = start_ph;
     let mut iterations = 0;
@@ -461,7 +524,7 @@ pub fn system_states(
     composition: &Composition,
     solution: &Solution,
 ) -> Vec<SystemState> {
-    let mut model = balance::ChargeBalance::new(constants, composition);
+    let mut model = balance::ChargeBalance::with_model(constants, composition, solution.activity);
     if solution.gamma.len() == model.gammas().len() {
         model.set_gammas(solution.gamma.clone());
     } else {

@@ -86,7 +86,7 @@ impl Speciation {
 
 /// The speciation of a solved composition.
 pub fn speciation(constants: &Constants, composition: &Composition, solution: &Solution) -> Speciation {
-    let mut model = ChargeBalance::new(constants, composition);
+    let mut model = ChargeBalance::with_model(constants, composition, solution.activity);
     if solution.gamma.len() == model.gammas().len() {
         model.set_gammas(solution.gamma.clone());
     } else {

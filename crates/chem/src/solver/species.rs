@@ -11,10 +11,19 @@ pub struct Gammas {
 impl Gammas {
     /// Coefficients at an ionic strength, with the constants' activity model.
     pub fn new(constants: &Constants, ionic_strength: f64) -> Self {
+        Self::with_model(constants, ionic_strength, constants.conditions.activity)
+    }
+
+    /// Coefficients at an ionic strength under a given model.
+    pub fn with_model(
+        constants: &Constants,
+        ionic_strength: f64,
+        model: super::ActivityModel,
+    ) -> Self {
         let f = super::activity::davies_function(ionic_strength);
         // log γ is proportional to z², so γ(z) = γ(1)^(z²).
         let g1 = 10f64.powf(super::activity::log_gamma(
-            constants.conditions.activity,
+            model,
             constants.davies_a,
             1,
             f,
