@@ -227,6 +227,7 @@ fn an_assay_above_100_percent_is_refused_with_the_reason_instead_of_a_ph() {
             hazards: Vec::new(),
             note: String::new(),
         }],
+        ..LibraryData::default()
     };
     assert_refused_in_readout(project, "assay 1.2 is outside (0, 1]");
 }
