@@ -258,6 +258,19 @@ fn assert_warnings_shown(project: Project, expected: &str) {
 
 #[test]
 fn brine_beyond_the_activity_model_is_flagged_plainly_in_the_readout() {
+    let mut project = project_of(
+        vec![
+            RecipeLine::grams("water", 1000.0),
+            RecipeLine::grams("sodium_chloride", 300.0),
+        ],
+        None,
+    );
+    project.settings.activity = saltwise_chem::ActivityModel::Davies;
+    assert_warnings_shown(project, "is above 0.5 mol/kg");
+}
+
+#[test]
+fn brine_takes_the_pitzer_model_when_the_model_is_automatic() {
     let project = project_of(
         vec![
             RecipeLine::grams("water", 1000.0),
@@ -265,7 +278,19 @@ fn brine_beyond_the_activity_model_is_flagged_plainly_in_the_readout() {
         ],
         None,
     );
-    assert_warnings_shown(project, "is above 0.5 mol/kg");
+    let dir = tempfile::tempdir().unwrap();
+    let h = harness_in(project, &Folders::under(dir.path()));
+    let report = h.state().engine().solved().unwrap();
+    assert_eq!(
+        report.solution.activity,
+        saltwise_chem::ActivityModel::Pitzer
+    );
+    // 5.1 mol/kg NaCl is inside the Pitzer parameters' range: nothing to flag.
+    assert!(report.warnings.is_empty(), "{:?}", report.warnings);
+    assert!(
+        h.query_by_label("Pitzer (chosen for this recipe)")
+            .is_some()
+    );
 }
 
 #[test]

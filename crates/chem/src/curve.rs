@@ -4,7 +4,7 @@
 use crate::error::{DoseError, RecipeError};
 use crate::library::{Library, ResolvedRelease};
 use crate::recipe::{Batch, Totals};
-use crate::solver::{self, Composition, Constants, Guess, Solution};
+use crate::solver::{self, ActivityModel, Composition, Constants, Guess, Solution};
 
 /// One point of a dose curve.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -58,6 +58,8 @@ pub struct Doser<'a> {
     water_kg_per_g: f64,
     /// (system index, mol in batch, mol per g of adjuster).
     systems: Vec<(usize, f64, f64)>,
+    /// The activity model of every point: the one the batch as weighed took.
+    activity: ActivityModel,
     /// (ion index, mol in batch, mol per g of adjuster), hydron and hydroxide excluded.
     ions: Vec<(usize, f64, f64)>,
     /// (Σ z·n, Σ z²·n, Σ |z|·n, proton excess) in the batch and per g.
@@ -111,8 +113,9 @@ impl<'a> Doser<'a> {
             let [charge, z2, abs_charge] = t.spectator_sums(library);
             [charge, z2, abs_charge, t.proton_excess_mol]
         };
-        Ok(Self {
+        let mut doser = Self {
             constants,
+            activity: constants.conditions.activity,
             adjuster: adjuster_id.to_owned(),
             batch_mass_g: batch.total_mass_g,
             water_kg: base.water_kg,
@@ -121,7 +124,16 @@ impl<'a> Doser<'a> {
             ions,
             spectators: sums(base),
             spectators_per_g: sums(&per_gram),
-        })
+        };
+        if doser.activity == ActivityModel::Auto {
+            doser.activity = solver::solve(constants, &doser.composition(0.0), None).activity;
+        }
+        Ok(doser)
+    }
+
+    /// The activity model every point is solved with.
+    pub fn activity(&self) -> ActivityModel {
+        self.activity
     }
 
     /// Molal composition after adding a dose (g).
@@ -150,7 +162,12 @@ impl<'a> Doser<'a> {
 
     /// Solves the batch after adding a dose (g), optionally from a starting point.
     pub fn solve(&self, dose_g: f64, guess: Option<Guess>) -> Solution {
-        solver::solve(self.constants, &self.composition(dose_g), guess)
+        solver::solve_as(
+            self.constants,
+            &self.composition(dose_g),
+            guess,
+            self.activity,
+        )
     }
 
     /// Sweeps `points` doses evenly from 0 to `max_g`, each solve starting from the previous one.

@@ -136,14 +136,15 @@ pub fn dilution_sweep(
     to: f64,
     points: usize,
 ) -> Result<Vec<SweepPoint>, SweepError> {
+    // Every point takes the activity model the first (least diluted) point chose.
+    let mut activity = constants.conditions.activity;
     dilution_points(from, to, points)?
         .into_iter()
         .map(|d| {
             let c = diluted_composition(library, batch, d)?;
-            Ok(SweepPoint {
-                x: d,
-                ph: solver::solve(constants, &c, None).ph,
-            })
+            let s = solver::solve_as(constants, &c, None, activity);
+            activity = s.activity;
+            Ok(SweepPoint { x: d, ph: s.ph })
         })
         .collect()
 }
@@ -158,6 +159,8 @@ pub fn temperature_sweep(
     points: usize,
 ) -> Result<Vec<SweepPoint>, SweepError> {
     let composition = batch.composition(library)?;
+    // Every point takes the activity model the first point chose.
+    let mut activity = conditions.activity;
     Ok(temperature_points(from_c, to_c, points)?
         .into_iter()
         .map(|temp_c| {
@@ -168,9 +171,11 @@ pub fn temperature_sweep(
                     ..conditions
                 },
             );
+            let s = solver::solve_as(&constants, &composition, None, activity);
+            activity = s.activity;
             SweepPoint {
                 x: temp_c,
-                ph: solver::solve(&constants, &composition, None).ph,
+                ph: s.ph,
             }
         })
         .collect())

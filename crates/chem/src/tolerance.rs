@@ -315,7 +315,7 @@ impl<'a> Perturber<'a> {
             ionic_strength: self.nominal.ionic_strength,
         });
         match t.composition(self.library) {
-            Some(c) => solver::solve(self.constants, &c, guess),
+            Some(c) => solver::solve_as(self.constants, &c, guess, self.nominal.activity),
             None => self.nominal.clone(),
         }
     }

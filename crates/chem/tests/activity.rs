@@ -51,7 +51,10 @@ fn mean_gamma(lib: &Library, cation: &str, anion: &str, m: f64) -> (f64, f64) {
             .map(|i| i.gamma)
             .unwrap_or_else(|| panic!("{id} missing"))
     };
-    ((g(cation) * g(anion)).sqrt(), sp.osmotic.expect("Pitzer gives φ"))
+    (
+        (g(cation) * g(anion)).sqrt(),
+        sp.osmotic.expect("Pitzer gives φ"),
+    )
 }
 
 // Mean activity coefficients at 25 °C: Robinson & Stokes, Electrolyte Solutions (2nd ed.,
@@ -156,7 +159,9 @@ fn osmotic_coefficient_of_sodium_chloride_to_6_molal() {
     let lib = lib();
     for (m, phi) in published {
         let (_, got) = mean_gamma(&lib, "sodium", "chloride", m);
-        assert!((got - phi).abs() <= 0.005, "φ at {m}: {got:.4} against {phi}");
+        assert!(
+            (got - phi).abs() <= 0.005,
+            "φ at {m}: {got:.4} against {phi}"
+        );
     }
 }
-

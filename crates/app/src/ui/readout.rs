@@ -120,6 +120,16 @@ fn values_ui(ui: &mut Ui, settings: &Settings, engine: &Engine) {
                     ui.label(text);
                 }
                 ui.end_row();
+                ui.label("Activity model");
+                let chosen = if settings.activity == ActivityModel::Auto {
+                    format!("{} (chosen for this recipe)", s.activity.label())
+                } else {
+                    s.activity.label().to_owned()
+                };
+                ui.label(chosen).on_hover_text(
+                    "Automatic keeps Davies while the ionic strength and the charges present allow it, and takes Pitzer for concentrates",
+                );
+                ui.end_row();
                 ui.label("Buffer capacity");
                 ui.label(
                     RichText::new(format!("{} mol/kg water per pH", sig(s.buffer_capacity, 3))).size(18.0),

@@ -55,7 +55,11 @@ pub struct ChargeBalance<'a> {
 impl<'a> ChargeBalance<'a> {
     /// The balance of a composition under some constants, at I = 0 until set.
     pub fn new(constants: &'a Constants, composition: &'a Composition) -> Self {
-        Self::with_model(constants, composition, constants.conditions.activity.fixed())
+        Self::with_model(
+            constants,
+            composition,
+            constants.conditions.activity.fixed(),
+        )
     }
 
     /// The balance under a given activity model (not `Auto`).
@@ -66,8 +70,8 @@ impl<'a> ChargeBalance<'a> {
     ) -> Self {
         let binding = Binding::new(constants, composition, model);
         let layout = Layout::new(constants, composition, &binding);
-        let pitzer = (model == ActivityModel::Pitzer)
-            .then(|| layout.pitzer_model(constants, composition));
+        let pitzer =
+            (model == ActivityModel::Pitzer).then(|| layout.pitzer_model(constants, composition));
         let steps = composition
             .systems
             .iter()
@@ -98,7 +102,9 @@ impl<'a> ChargeBalance<'a> {
         if ionic_strength.to_bits() == self.ionic.to_bits() {
             return;
         }
-        let g = self.layout.by_charge(self.constants, ionic_strength, self.model);
+        let g = self
+            .layout
+            .by_charge(self.constants, ionic_strength, self.model);
         self.set_gammas(g);
         self.ionic = ionic_strength;
     }
@@ -122,7 +128,8 @@ impl<'a> ChargeBalance<'a> {
                 Ligand::Form { slot, form } => self.gamma[self.layout.form_start[slot] + form],
             };
             let g_complex = self.gamma[self.layout.complex_start + c];
-            self.k_cond[c] = self.constants.complexes[b.constant].k * g_metal * g_ligand / g_complex;
+            self.k_cond[c] =
+                self.constants.complexes[b.constant].k * g_metal * g_ligand / g_complex;
         }
     }
 
@@ -282,7 +289,9 @@ impl<'a> ChargeBalance<'a> {
         }
         Evaluation {
             residual,
-            derivative: -LN_10 * (h_molal + oh_molal) + state.partial_p + state.derivative_correction,
+            derivative: -LN_10 * (h_molal + oh_molal)
+                + state.partial_p
+                + state.derivative_correction,
             scale,
             ionic_strength: 0.5 * z2_sum,
             h_molal,

@@ -273,7 +273,11 @@ impl Binding {
             let p_l = s * (mean + sum_ja);
             protons[slot] = p_l;
             for v in 0..d {
-                let own = if v == 0 { LN10 * inputs.variance[slot] } else { 0.0 };
+                let own = if v == 0 {
+                    LN10 * inputs.variance[slot]
+                } else {
+                    0.0
+                };
                 dp_slot[slot * d + v] = -p_l * dln_d[v] + s * (own + dsum_ja[v]);
             }
         }

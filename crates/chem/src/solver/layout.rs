@@ -77,7 +77,12 @@ impl Layout {
     }
 
     /// Position of a library species in this composition, if present.
-    pub fn position(&self, constants: &Constants, composition: &Composition, species: Species) -> Option<usize> {
+    pub fn position(
+        &self,
+        constants: &Constants,
+        composition: &Composition,
+        species: Species,
+    ) -> Option<usize> {
         match species {
             Species::Ion(i) if i == constants.hydron => Some(H),
             Species::Ion(i) if i == constants.hydroxide => Some(OH),

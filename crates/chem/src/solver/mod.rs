@@ -12,8 +12,8 @@ mod binding;
 mod layout;
 mod newton;
 pub mod pitzer;
-mod species;
 mod speciation;
+mod species;
 pub mod temperature;
 pub mod water;
 
@@ -143,7 +143,8 @@ impl Constants {
                 let z_m = library.ions()[c.metal].charge;
                 let z_l = library.species_charge(c.ligand);
                 let f = activity::davies_function(c.data.ionic_strength);
-                let log_k0 = c.data.log_k + a25 * f * f64::from(z_m * z_m + z_l * z_l - c.charge * c.charge);
+                let log_k0 =
+                    c.data.log_k + a25 * f * f64::from(z_m * z_m + z_l * z_l - c.charge * c.charge);
                 let log_k = -temperature::pka_at(-log_k0, c.data.dh_kj_mol, 0.0, temp_k);
                 ComplexConstant {
                     id: c.data.id.clone(),
@@ -354,6 +355,21 @@ pub fn largest_significant_charge(
         .unwrap_or(1)
 }
 
+/// Solves under the model a first solve chose (`Solution::activity`): curves and sweeps keep
+/// it for every point so that they stay continuous. `Auto` here is the same as [`solve`].
+pub fn solve_as(
+    constants: &Constants,
+    composition: &Composition,
+    guess: Option<Guess>,
+    activity: ActivityModel,
+) -> Solution {
+    if activity == ActivityModel::Auto {
+        solve(constants, composition, guess)
+    } else {
+        solve_with(constants, composition, guess, activity)
+    }
+}
+
 /// Solves under one activity model (not `Auto`).
 fn solve_with(
     constants: &Constants,
@@ -438,7 +454,11 @@ fn solve_by_charge(
 }
 
 /// Pitzer: the fixed point of every activity coefficient, by damped substitution in ln γ.
-fn solve_pitzer(model: &mut balance::ChargeBalance<'_>, start_ph: f64, start_ionic: f64) -> Solution {
+fn solve_pitzer(
+    model: &mut balance::ChargeBalance<'_>,
+    start_ph: f64,
+    start_ionic: f64,
+) -> Solution {
     const MAX_OUTER: u32 = 200;
     // ln γ self-consistent to 1e-12 moves pH by under 1e-12.
     const LN_GAMMA_TOL: f64 = 1e-12;

@@ -85,7 +85,11 @@ impl Speciation {
 }
 
 /// The speciation of a solved composition.
-pub fn speciation(constants: &Constants, composition: &Composition, solution: &Solution) -> Speciation {
+pub fn speciation(
+    constants: &Constants,
+    composition: &Composition,
+    solution: &Solution,
+) -> Speciation {
     let mut model = ChargeBalance::with_model(constants, composition, solution.activity);
     if solution.gamma.len() == model.gammas().len() {
         model.set_gammas(solution.gamma.clone());
@@ -104,7 +108,11 @@ pub fn speciation(constants: &Constants, composition: &Composition, solution: &S
     }
     for (slot, &(system, _)) in composition.systems.iter().enumerate() {
         for p in layout.form_start[slot]..layout.form_start[slot + 1] {
-            names[p] = format!("{}/{}", constants.system_ids[system], p - layout.form_start[slot]);
+            names[p] = format!(
+                "{}/{}",
+                constants.system_ids[system],
+                p - layout.form_start[slot]
+            );
         }
     }
     let mut complexes = Vec::new();

@@ -22,12 +22,7 @@ impl Gammas {
     ) -> Self {
         let f = super::activity::davies_function(ionic_strength);
         // log γ is proportional to z², so γ(z) = γ(1)^(z²).
-        let g1 = 10f64.powf(super::activity::log_gamma(
-            model,
-            constants.davies_a,
-            1,
-            f,
-        ));
+        let g1 = 10f64.powf(super::activity::log_gamma(model, constants.davies_a, 1, f));
         let mut gamma = [1.0; (2 * MAX_CHARGE + 1) as usize];
         for (i, g) in gamma.iter_mut().enumerate() {
             let z = i as i32 - MAX_CHARGE;
