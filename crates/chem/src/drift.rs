@@ -18,7 +18,7 @@ use thiserror::Error;
 
 use crate::library::Library;
 use crate::recipe::Batch;
-use crate::solver::{self, Composition, Constants, Guess, Solution, SystemState, activity};
+use crate::solver::{self, Composition, Constants, Guess, Solution, SystemState};
 
 /// Partial pressure of CO₂ in air, atm (420 ppm by volume of dry air at 1 atm).
 pub const CO2_AIR_ATM: f64 = 420e-6;
@@ -115,23 +115,17 @@ pub fn with_carbonate_total(composition: &Composition, carbonic: usize, molal: f
     c
 }
 
-/// Activity of dissolved CO₂ (the fully protonated carbonic form) at a solved state.
-fn co2_activity(constants: &Constants, carbonic: usize, total: f64, s: &Solution) -> f64 {
-    let ka = constants.ka(carbonic);
-    let z0 = constants.z0(carbonic);
-    let c = constants.conditions;
-    let f = activity::davies_function(s.ionic_strength);
-    let gamma = |z: i32| 10f64.powf(activity::log_gamma(c.activity, constants.davies_a, z, f));
-    let a_h = 10f64.powf(-s.ph);
-    // t_j = t_{j−1}·K'_j/aH with K'_j = K_j·γ(z0−j+1)/γ(z0−j).
-    let mut t = 1.0;
-    let mut sum = 1.0;
-    for (j, &k) in ka.iter().enumerate() {
-        let z_acid = z0 - j as i32;
-        t *= k * gamma(z_acid) / gamma(z_acid - 1) / a_h;
-        sum += t;
-    }
-    total / sum * gamma(z0)
+/// Activity of dissolved CO₂ (the fully protonated carbonic form, neutral: γ = 1) at a solved state.
+fn co2_activity(
+    constants: &Constants,
+    composition: &Composition,
+    carbonic: usize,
+    s: &Solution,
+) -> f64 {
+    solver::system_states(constants, composition, s)
+        .iter()
+        .find(|st| st.system == carbonic)
+        .map_or(0.0, |st| st.molality(0))
 }
 
 /// Solves the product open to air: the carbonate total at which a(CO₂) = K_H(T)·p(CO₂).
@@ -145,12 +139,9 @@ pub fn open_to_air(
         .ok_or(DriftError::NoCarbonic)?;
     let target = henry_co2(constants.conditions.temp_c) * CO2_AIR_ATM;
     let eval = |total: f64, guess: Option<Guess>| {
-        let s = solver::solve(
-            constants,
-            &with_carbonate_total(composition, carbonic, total),
-            guess,
-        );
-        let f = co2_activity(constants, carbonic, total, &s) - target;
+        let c = with_carbonate_total(composition, carbonic, total);
+        let s = solver::solve(constants, &c, guess);
+        let f = co2_activity(constants, &c, carbonic, &s) - target;
         (f, s)
     };
     let start = composition

@@ -21,15 +21,14 @@ impl Library {
         Self::from_ron(BUILT_IN_LIBRARY_RON, "built-in library")
     }
 
+    /// The built-in library's data as written, e.g. to check a model with parts left out.
+    pub fn built_in_data() -> Result<LibraryData, LibraryError> {
+        parse(BUILT_IN_LIBRARY_RON, "built-in library")
+    }
+
     /// Parses and validates a library from RON text; `origin` names it in errors.
     pub fn from_ron(text: &str, origin: &str) -> Result<Self, LibraryError> {
-        let data: LibraryData = ron::from_str(text).map_err(|e| LibraryError::Syntax {
-            origin: origin.to_owned(),
-            line: e.span.start.line,
-            column: e.span.start.col,
-            message: e.code.to_string(),
-        })?;
-        Self::from_data(data)
+        Self::from_data(parse(text, origin)?)
     }
 
     /// Validates library data.
@@ -356,4 +355,14 @@ fn invalid(kind: &'static str, id: &str, message: &str) -> LibraryError {
         id: id.to_owned(),
         message: message.to_owned(),
     }
+}
+
+/// Library data from RON text; `origin` names it in errors.
+fn parse(text: &str, origin: &str) -> Result<LibraryData, LibraryError> {
+    ron::from_str(text).map_err(|e| LibraryError::Syntax {
+        origin: origin.to_owned(),
+        line: e.span.start.line,
+        column: e.span.start.col,
+        message: e.code.to_string(),
+    })
 }
