@@ -109,7 +109,27 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
             "ionic_strength": s.ionic_strength,
             "buffer_capacity": s.buffer_capacity,
             "temperature_c": r.conditions.temp_c,
-            "activity": r.conditions.activity.name(),
+            "activity": s.activity.name(),
+            "activity_requested": r.conditions.activity.name(),
+            "osmotic_coefficient": report.speciation.osmotic,
+            "ions": report.speciation.ions.iter().map(|i| json!({
+                "id": i.id,
+                "charge": i.charge,
+                "molality": i.molality,
+                "gamma": i.gamma,
+            })).collect::<Vec<_>>(),
+            "fallback_ions": report.speciation.fallback_ions(),
+            "complexes": report.speciation.complexes.iter().map(|c| json!({
+                "id": c.id,
+                "metal": c.metal,
+                "ligand": c.ligand,
+                "charge": c.charge,
+                "molality": c.molality,
+            })).collect::<Vec<_>>(),
+            "saturation": report.speciation.saturation.iter().map(|x| json!({
+                "solid": x.solid,
+                "saturation_index": x.saturation_index,
+            })).collect::<Vec<_>>(),
             "water_kg": report.batch.totals.water_kg,
             "batch_mass_g": report.batch.total_mass_g,
             "converged": s.converged(),
@@ -152,7 +172,7 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
     t += &format!(
         "{:.1} °C, {} activities; {:.4} kg water in a {:.2} g batch\n",
         r.conditions.temp_c,
-        r.conditions.activity.name(),
+        s.activity.name(),
         report.batch.totals.water_kg,
         report.batch.total_mass_g
     );
@@ -188,6 +208,7 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
             );
         }
     }
+    t += &speciation_text(&report.speciation);
     t += "\ndrift\n";
     match &drift {
         Ok(d) => {
@@ -396,4 +417,32 @@ pub fn water(args: &WaterArgs) -> Result<ExitCode> {
         ))?;
     }
     Ok(ExitCode::SUCCESS)
+}
+
+/// The complexes, saturation indices and estimated activities of a report, as text.
+fn speciation_text(sp: &saltwise_chem::solver::Speciation) -> String {
+    let mut t = String::new();
+    if !sp.complexes.is_empty() {
+        t += "\ncomplexes\n";
+        for c in &sp.complexes {
+            t += &format!(
+                "  {:<32} {:<10} {:<20} {:>12.4e} mol/kg water\n",
+                c.id, c.metal, c.ligand, c.molality
+            );
+        }
+    }
+    if !sp.saturation.is_empty() {
+        t += "\nsaturation index (log IAP/Ksp; above 0 the solid can form)\n";
+        for x in &sp.saturation {
+            t += &format!("  {:<20} {:>+8.2}\n", x.solid, x.saturation_index);
+        }
+    }
+    let fallback = sp.fallback_ions();
+    if !fallback.is_empty() {
+        t += &format!(
+            "\nactivity estimated from the charge (no Pitzer parameters): {}\n",
+            fallback.join(", ")
+        );
+    }
+    t
 }
