@@ -24,6 +24,7 @@ fn build(items: &[(usize, f64)], water_g: f64) -> Recipe {
     Recipe {
         lines,
         qs_to_g: None,
+        water_hardness: None,
     }
 }
 

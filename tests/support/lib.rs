@@ -38,6 +38,7 @@ pub fn molal_recipe(library: &Library, items: &[(&str, f64)]) -> Recipe {
     Recipe {
         lines,
         qs_to_g: None,
+        water_hardness: None,
     }
 }
 

@@ -16,6 +16,7 @@ fn bleach_with(extra: &str, adjuster: &str) -> Project {
             RecipeLine::grams("sodium_hydroxide", 2.0),
         ],
         qs_to_g: None,
+        water_hardness: None,
     });
     p.name = "Harbourline bleach cleaner (invented)".into();
     if !extra.is_empty() {

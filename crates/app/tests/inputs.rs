@@ -12,7 +12,11 @@ use saltwise_chem::project::Project;
 use saltwise_chem::{Recipe, RecipeError, RecipeLine};
 
 fn project_of(lines: Vec<RecipeLine>, qs_to_g: Option<f64>) -> Project {
-    let mut p = Project::with_recipe(Recipe { lines, qs_to_g });
+    let mut p = Project::with_recipe(Recipe {
+        lines,
+        qs_to_g,
+        water_hardness: None,
+    });
     p.name = "Bench trial".into();
     p
 }

@@ -43,6 +43,7 @@ fn adding_citric_acid_from_the_picker_and_typing_its_amount_shows_the_computed_p
     let start = Project::with_recipe(Recipe {
         lines: vec![RecipeLine::grams("water", 500.0)],
         qs_to_g: None,
+        water_hardness: None,
     });
     let mut h = harness(start, dir.path());
 

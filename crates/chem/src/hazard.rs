@@ -85,6 +85,10 @@ pub fn assemble(
     if let Some(c) = solution.and_then(extreme_ph) {
         items.push(c);
     }
+    if let (Some(s), Ok(composition)) = (solution, batch.composition(library)) {
+        let sp = crate::solver::speciation(constants, &composition, s);
+        items.extend(scale_cautions(&sp));
+    }
     // The reserve is a screening extra: a product it cannot be computed for simply has none.
     let reserve = solution.and_then(|s| {
         reserve::reserve(library, constants, batch, s.ph)
@@ -342,6 +346,7 @@ mod tests {
                 .map(|&(id, g)| RecipeLine::grams(id, g))
                 .collect(),
             qs_to_g: None,
+            water_hardness: None,
         };
         let report = evaluate_with(&lib, &c, &recipe).unwrap();
         assemble(&lib, &c, &report.batch, Some(&report.solution), adjuster)
@@ -479,4 +484,28 @@ mod tests {
         );
         assert!(c.is_empty(), "{c:?}");
     }
+}
+
+/// Saturation index above which a scale caution is raised (common practice, no source: an index
+/// within ±0.2 of 0 is within the uncertainty of the constants).
+pub const SCALE_SI: f64 = 0.2;
+
+/// A caution for each solid the solution is supersaturated in.
+pub fn scale_cautions(speciation: &crate::solver::Speciation) -> Vec<Caution> {
+    speciation
+        .saturation
+        .iter()
+        .filter(|x| x.saturation_index > SCALE_SI)
+        .map(|x| Caution {
+            title: format!("Scale: {} can deposit", x.solid.replace('_', " ")),
+            text: format!(
+                "The liquid is supersaturated in {} (saturation index {:+.2}): it can deposit \
+                 as scale or haze, on standing, on heating or on surfaces. Whether and how fast \
+                 it forms depends on nucleation, which the model does not predict; add chelant, \
+                 lower the hardness or the pH, and check on the bench.",
+                x.solid.replace('_', " "),
+                x.saturation_index
+            ),
+        })
+        .collect()
 }

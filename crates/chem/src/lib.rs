@@ -9,6 +9,7 @@
 #![deny(missing_docs)]
 
 pub mod amount;
+pub mod chelant;
 pub mod curve;
 pub mod design;
 pub mod drift;

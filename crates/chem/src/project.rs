@@ -252,6 +252,7 @@ impl Project {
                 line("sodium_chloride", 0.8, Unit::Percent),
             ],
             qs_to_g: Some(1000.0),
+            water_hardness: None,
         });
         p.name = "Meadowbrook mild cleanser base (demo)".into();
         p.notes =

@@ -230,6 +230,9 @@ impl<'a> Perturber<'a> {
             let e = &library.entries()[l.entry];
             let id = e.ingredient.id.clone();
             let mut per_mol = Totals::per_gram(library, l.entry);
+            if let (true, Some(h)) = (id == WATER, &recipe.water_hardness) {
+                per_mol.add_hardness(library, h, 1.0);
+            }
             let mol_per_g = e.ingredient.assay / e.molar_mass_g_per_mol;
             per_mol.water_kg = 0.0;
             for v in per_mol
@@ -259,7 +262,7 @@ impl<'a> Perturber<'a> {
                 assay_slot,
             });
         }
-        let qs_per_gram = match library.entry_index(WATER) {
+        let mut qs_per_gram = match library.entry_index(WATER) {
             Some(w) => Totals::per_gram(library, w),
             None => {
                 let mut t = Totals::zero(library);
@@ -267,6 +270,9 @@ impl<'a> Perturber<'a> {
                 t
             }
         };
+        if let Some(h) = &recipe.water_hardness {
+            qs_per_gram.add_hardness(library, h, 1.0);
+        }
         let composition = batch.composition(library)?;
         let nominal = solver::solve(constants, &composition, None);
         Ok(Self {
@@ -308,7 +314,17 @@ impl<'a> Perturber<'a> {
             t.proton_excess_mol += mol * l.per_mol.proton_excess_mol;
         }
         if let Some(qs) = self.qs_to_g {
-            t.water_kg += (qs - used_g).max(0.0) * self.qs_per_gram.water_kg;
+            // q.s. water, with the hardness it carries.
+            let qs_g = (qs - used_g).max(0.0);
+            let w = &self.qs_per_gram;
+            t.water_kg += qs_g * w.water_kg;
+            for (a, b) in t.system_mol.iter_mut().zip(&w.system_mol) {
+                *a += qs_g * b;
+            }
+            for (a, b) in t.ion_mol.iter_mut().zip(&w.ion_mol) {
+                *a += qs_g * b;
+            }
+            t.proton_excess_mol += qs_g * w.proton_excess_mol;
         }
         let guess = Some(Guess {
             ph: self.nominal.ph,

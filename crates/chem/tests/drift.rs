@@ -126,6 +126,7 @@ fn strong_acid_into_an_acetate_buffer_moves_ph_by_dose_over_capacity() {
             RecipeLine::moles("sodium_acetate_trihydrate", 0.05),
         ],
         qs_to_g: None,
+        water_hardness: None,
     };
     let report = evaluate_with(&lib, &k, &recipe).unwrap();
     let s = &report.solution;

@@ -61,6 +61,7 @@ fn ph_of(lib: &Library, id: &str, molality: f64, activity: ActivityModel) -> f64
             },
         ],
         qs_to_g: None,
+        water_hardness: None,
     };
     let r = evaluate(
         lib,

@@ -23,6 +23,7 @@ fn recipe(lines: &[(&str, f64)]) -> Recipe {
             .map(|&(id, g)| RecipeLine::grams(id, g))
             .collect(),
         qs_to_g: None,
+        water_hardness: None,
     }
 }
 
@@ -191,4 +192,71 @@ fn complexes_lower_calcite_saturation_and_edta_removes_it() {
     // Every solve closes its metal balances.
     assert!(chelated.solution.metal_residual < 1e-10);
     let _ = solver::PH_MAX;
+}
+
+#[test]
+fn hard_water_brings_its_calcium_and_magnesium() {
+    // 300 ppm as CaCO₃ = 300 mg/kg ÷ 100.086 g/mol = 2.997 mmol/kg of Ca + Mg (definition of the
+    // unit; CaCO₃ molar mass from the IUPAC 2021 atomic weights, from memory), 70 % of it calcium.
+    let lib = lib();
+    let mut r = recipe(&[("water", 1000.0)]);
+    r.water_hardness = Some(saltwise_chem::recipe::Hardness::ppm(300.0));
+    let report = evaluate(&lib, &r, davies()).expect("solves");
+    let total = |id: &str| {
+        let i = lib.ion_index(id).expect("ion");
+        report
+            .composition
+            .ions
+            .iter()
+            .find(|(k, _)| *k == i)
+            .map_or(0.0, |(_, m)| *m)
+    };
+    assert!((total("calcium") - 0.7 * 2.997e-3).abs() < 1e-6);
+    assert!((total("magnesium") - 0.3 * 2.997e-3).abs() < 1e-6);
+    // As hydrogen carbonate, natural hard water sits near pH 8 (common practice, no source).
+    assert!(
+        (7.6..8.6).contains(&report.solution.ph),
+        "{}",
+        report.solution.ph
+    );
+    // Refused outside its range, naming the field.
+    r.water_hardness = Some(saltwise_chem::recipe::Hardness::ppm(-5.0));
+    let err = evaluate(&lib, &r, davies()).expect_err("refused");
+    assert!(err.to_string().contains("water hardness"), "{err}");
+}
+
+#[test]
+fn tetrasodium_edta_holds_its_stoichiometric_hardness_when_alkaline() {
+    // Na₄EDTA (380.17 g/mol) binds calcium 1:1, so 1 % in a product holds
+    // 10 g/kg ÷ 380.17 × 100.086 = 2.633 g CaCO₃ per kg = 2633 ppm (stoichiometry; molar masses
+    // from the IUPAC 2021 atomic weights, from memory) once the pH is well above pKa6 = 10.37.
+    let lib = lib();
+    let constants = Constants::new(&lib, davies());
+    let r = recipe(&[
+        ("water", 1000.0 - 10.0 / 0.39),
+        ("tetrasodium_edta_39", 10.0 / 0.39),
+    ]);
+    let report = saltwise_chem::report::evaluate_with(&lib, &constants, &r).expect("solves");
+    assert!(report.solution.ph > 10.5, "{}", report.solution.ph);
+    let cap = saltwise_chem::chelant::capacity(
+        &lib,
+        &constants,
+        &report.batch,
+        &report.composition,
+        &report.solution,
+        &report.systems,
+    )
+    .expect("capacity");
+    let edta = cap
+        .chelants
+        .iter()
+        .find(|c| c.system == "edta")
+        .expect("edta");
+    assert!(
+        (edta.capacity_ppm - 2633.0).abs() / 2633.0 < 0.03,
+        "{}",
+        edta.capacity_ppm
+    );
+    // Nothing is bound yet in purified water (only Na⁺ pairs).
+    assert!(edta.bound_fraction < 0.9);
 }

@@ -73,6 +73,7 @@ fn the_committed_version_1_file_loads() {
             },
         ],
         qs_to_g: None,
+        water_hardness: None,
     };
     assert_eq!(project.recipe(), &expected);
     let s = &project.settings;

@@ -27,6 +27,7 @@ fn diluted_hydrochloric_acid_matches_the_exact_ideal_result() {
             RecipeLine::moles("hydrochloric_acid_36", 0.01),
         ],
         qs_to_g: None,
+        water_hardness: None,
     };
     let report = evaluate_with(&lib, &k, &recipe).unwrap();
     let b = &report.batch;
@@ -62,6 +63,7 @@ fn diluted_acetate_buffer_agrees_with_the_solver_on_the_diluted_recipe() {
     let recipe = Recipe {
         lines: lines.clone(),
         qs_to_g: None,
+        water_hardness: None,
     };
     let report = evaluate_with(&lib, &k, &recipe).unwrap();
     let mass = report.batch.total_mass_g;
@@ -75,6 +77,7 @@ fn diluted_acetate_buffer_agrees_with_the_solver_on_the_diluted_recipe() {
             &Recipe {
                 lines: more,
                 qs_to_g: None,
+                water_hardness: None,
             },
         )
         .unwrap();

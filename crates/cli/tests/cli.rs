@@ -53,6 +53,7 @@ fn the_cli_gives_the_same_ph_as_the_library() {
             saltwise_chem::RecipeLine::grams("borax", 4.0),
         ],
         qs_to_g: None,
+        water_hardness: None,
     };
     let direct =
         saltwise_chem::evaluate(&lib, &recipe, saltwise_chem::Conditions::default()).unwrap();

@@ -19,6 +19,7 @@ fn write_two_variants(dir: &Path) -> String {
     let mut p = Project::with_recipe(Recipe {
         lines: vec![RecipeLine::grams("citric_acid_monohydrate", 10.0)],
         qs_to_g: Some(1000.0),
+        water_hardness: None,
     });
     p.name = "Fernhill descaler trial (invented)".into();
     p.rename_variant(0, "Acid only").unwrap();
@@ -146,6 +147,7 @@ fn ph_of_a_project_reports_the_active_form_the_project_chose() {
     let mut p = Project::with_recipe(Recipe {
         lines: vec![RecipeLine::grams("citric_acid_monohydrate", 10.0)],
         qs_to_g: Some(1000.0),
+        water_hardness: None,
     });
     // Form 1 of citric acid: one proton removed (dihydrogen citrate).
     p.settings.active_forms.insert("citric".into(), 1);

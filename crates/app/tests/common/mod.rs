@@ -57,6 +57,7 @@ pub fn citric_project() -> Project {
             RecipeLine::grams("citric_acid_monohydrate", 10.0),
         ],
         qs_to_g: None,
+        water_hardness: None,
     });
     p.name = "Citric rinse".into();
     p

@@ -136,11 +136,17 @@ impl Recipe {
         if totals.water_kg.partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
             return Err(RecipeError::NoWater);
         }
-        Ok(Batch {
+        let mut batch = Batch {
             lines,
             qs_water_g,
             total_mass_g: used_g + qs_water_g,
             totals,
-        })
+        };
+        if let Some(h) = &self.water_hardness {
+            h.check()?;
+            let water_g = self.water_lines_g(library, &batch);
+            batch.totals.add_hardness(library, h, water_g);
+        }
+        Ok(batch)
     }
 }

@@ -4,13 +4,16 @@
 //! resolved to masses, water and molal totals.
 
 mod batch;
+mod hardness;
 mod totals;
 
 use serde::{Deserialize, Serialize};
 
 use crate::amount::Amount;
+use crate::library::Library;
 
 pub use batch::{Batch, LineMass};
+pub use hardness::{CACO3_G_PER_MOL, DEFAULT_CALCIUM_SHARE, Hardness, HardnessAnion};
 pub use totals::Totals;
 
 /// One line of a recipe.
@@ -60,6 +63,9 @@ pub struct Recipe {
     /// Batch size in g when water is added q.s. to it.
     #[serde(default)]
     pub qs_to_g: Option<f64>,
+    /// Hardness of the water lines and q.s. water; none means purified water.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub water_hardness: Option<Hardness>,
 }
 
 impl Recipe {
@@ -71,6 +77,19 @@ impl Recipe {
                 .map(|&(id, mass_g)| RecipeLine::grams(id, mass_g))
                 .collect(),
             qs_to_g: None,
+            water_hardness: None,
         }
+    }
+
+    /// Grams of plain water in the batch: the `water` lines and the q.s. water.
+    pub fn water_lines_g(&self, library: &Library, batch: &Batch) -> f64 {
+        let water = library.entry_index(crate::library::WATER);
+        batch
+            .lines
+            .iter()
+            .filter(|l| Some(l.entry) == water)
+            .map(|l| l.mass_g)
+            .sum::<f64>()
+            + batch.qs_water_g
     }
 }

@@ -573,6 +573,20 @@ pub fn system_states(
         .collect()
 }
 
+/// Activity coefficient by charge at a solved state's ionic strength (Davies, or 1 when ideal):
+/// the estimate used where a species' own coefficient is not at hand.
+pub fn charge_gammas(constants: &Constants, solution: &Solution) -> impl Fn(i32) -> f64 + use<> {
+    let g = species::Gammas::with_model(
+        constants,
+        solution.ionic_strength,
+        match solution.activity {
+            ActivityModel::Ideal => ActivityModel::Ideal,
+            _ => ActivityModel::Davies,
+        },
+    );
+    move |z| g.of(z)
+}
+
 /// Fractions of each form of one system against pH, at a given ionic strength.
 pub fn fractions_against_ph(
     constants: &Constants,
