@@ -375,6 +375,10 @@ impl Project {
             if let Some(qs) = v.recipe.qs_to_g {
                 limits::BATCH_G.check(qs).map_err(bad)?;
             }
+            if let Some(h) = &v.recipe.water_hardness {
+                h.check()
+                    .map_err(|e| invalid(format!("variant '{}': {e}", v.name)))?;
+            }
             for (id, price) in &v.prices {
                 let what = format!("variant '{}': price per kg of {id}", v.name);
                 limits::PRICE_PER_KG.check_as(*price, &what).map_err(bad)?;

@@ -35,6 +35,15 @@ pub enum Command {
     Compare(crate::compare::CompareArgs),
 }
 
+/// The anion of the water's hardness.
+#[derive(Debug, Clone, Copy, ValueEnum)]
+pub enum HardnessAs {
+    /// Hydrogen carbonate (carbonate hardness, as in most natural water).
+    Bicarbonate,
+    /// Chloride (no alkalinity).
+    Chloride,
+}
+
 /// The activity model named on the command line.
 #[derive(Debug, Clone, Copy, ValueEnum)]
 pub enum Activity {
@@ -67,6 +76,15 @@ pub struct RecipeArgs {
     /// Activity model; default auto, or the project's.
     #[arg(long, value_enum)]
     pub activity: Option<Activity>,
+    /// Hardness of the water lines and q.s. water, ppm (mg/kg) as CaCO₃ (0–10000).
+    #[arg(long, value_name = "PPM")]
+    pub hardness: Option<f64>,
+    /// Share of the hardness that is calcium, 0–1 (the rest magnesium); default 0.7.
+    #[arg(long, value_name = "SHARE")]
+    pub hardness_calcium: Option<f64>,
+    /// The anion that comes with the hardness; default bicarbonate.
+    #[arg(long, value_enum)]
+    pub hardness_as: Option<HardnessAs>,
     /// Print JSON instead of text.
     #[arg(long)]
     pub json: bool,

@@ -6,7 +6,8 @@ use saltwise_chem::limits;
 use saltwise_chem::project::Project;
 use saltwise_chem::{ActivityModel, Amount, Conditions, Library, Recipe, RecipeLine};
 
-use crate::args::{Activity, RecipeArgs};
+use crate::args::{Activity, HardnessAs, RecipeArgs};
+use saltwise_chem::recipe::{Hardness, HardnessAnion};
 
 /// A recipe ready to solve.
 pub struct Resolved {
@@ -68,6 +69,23 @@ pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
     if let Some(qs) = &args.qs_to {
         let g = mass_g(qs).with_context(|| "--qs-to")?;
         recipe.qs_to_g = Some(limits::BATCH_G.check(g).with_context(|| "--qs-to")?);
+    }
+    if let Some(ppm) = args.hardness {
+        let mut h = recipe.water_hardness.unwrap_or_else(|| Hardness::ppm(ppm));
+        h.ppm_caco3 = ppm;
+        if let Some(share) = args.hardness_calcium {
+            h.calcium_share = share;
+        }
+        if let Some(anion) = args.hardness_as {
+            h.anion = match anion {
+                HardnessAs::Bicarbonate => HardnessAnion::HydrogenCarbonate,
+                HardnessAs::Chloride => HardnessAnion::Chloride,
+            };
+        }
+        h.check().with_context(|| "--hardness")?;
+        recipe.water_hardness = Some(h);
+    } else if args.hardness_calcium.is_some() || args.hardness_as.is_some() {
+        bail!("--hardness-calcium and --hardness-as need --hardness PPM");
     }
     if recipe.lines.is_empty() && recipe.qs_to_g.is_none() {
         bail!(

@@ -102,9 +102,34 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
             .get(system)
             .and_then(|sys| r.active_forms.get(&sys.id).copied())
     });
+    let capacity = saltwise_chem::chelant::capacity(
+        lib,
+        &constants,
+        &report.batch,
+        &report.composition,
+        s,
+        &report.systems,
+    );
     if args.json {
         let v = json!({
             "ph": s.ph,
+            "water_hardness": r.recipe.water_hardness.map(|h| json!({
+                "ppm_caco3": h.ppm_caco3,
+                "calcium_share": h.calcium_share,
+                "anion": match h.anion {
+                    saltwise_chem::recipe::HardnessAnion::HydrogenCarbonate => "bicarbonate",
+                    saltwise_chem::recipe::HardnessAnion::Chloride => "chloride",
+                },
+            })),
+            "chelant_capacity": capacity.as_ref().map(|c| json!({
+                "ppm_caco3": c.ppm_caco3,
+                "free_calcium_molal": saltwise_chem::chelant::FREE_CALCIUM,
+                "chelants": c.chelants.iter().map(|x| json!({
+                    "system": x.system,
+                    "capacity_ppm": x.capacity_ppm,
+                    "bound_fraction": x.bound_fraction,
+                })).collect::<Vec<_>>(),
+            })),
             "p_h_conc": s.p_h_conc,
             "ionic_strength": s.ionic_strength,
             "buffer_capacity": s.buffer_capacity,
@@ -209,6 +234,20 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
         }
     }
     t += &speciation_text(&report.speciation);
+    if let Some(c) = capacity.as_ref().filter(|c| !c.chelants.is_empty()) {
+        t += &format!(
+            "\nchelant capacity at this pH: {:.0} ppm hardness as CaCO₃ of product (free Ca²⁺ held at 1e-5 mol/kg)\n",
+            c.ppm_caco3
+        );
+        for x in &c.chelants {
+            t += &format!(
+                "  {:<14} {:>9.0} ppm   {:>5.1} % bound in the recipe as made\n",
+                x.system,
+                x.capacity_ppm,
+                x.bound_fraction * 100.0
+            );
+        }
+    }
     t += "\ndrift\n";
     match &drift {
         Ok(d) => {
