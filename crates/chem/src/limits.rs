@@ -123,8 +123,28 @@ pub const WEIGHING_TOLERANCE: Limit = Limit {
     rule: "a weighing tolerance is from 0 to 50 % either side of the amount",
 };
 
+/// Hardness of the recipe's water, ppm as CaCO₃.
+pub const HARDNESS_PPM: Limit = Limit {
+    what: "water hardness",
+    min: 0.0,
+    min_inclusive: true,
+    max: crate::recipe::hardness::MAX_PPM,
+    unit: "ppm",
+    rule: "water hardness is from 0 to 10 000 ppm as CaCO₃",
+};
+
+/// Share of the water's hardness that is calcium.
+pub const CALCIUM_SHARE: Limit = Limit {
+    what: "calcium share",
+    min: 0.0,
+    min_inclusive: true,
+    max: 1.0,
+    unit: "",
+    rule: "the calcium share of the hardness is from 0 to 1; the rest is magnesium",
+};
+
 /// Every limit, for listing and tests.
-pub const ALL: [Limit; 10] = [
+pub const ALL: [Limit; 12] = [
     AMOUNT,
     BATCH_G,
     TEMPERATURE_C,
@@ -135,6 +155,8 @@ pub const ALL: [Limit; 10] = [
     ASSAY,
     PRICE_PER_KG,
     WEIGHING_TOLERANCE,
+    HARDNESS_PPM,
+    CALCIUM_SHARE,
 ];
 
 impl Limit {

@@ -23,6 +23,8 @@ pub struct Report {
     pub systems: Vec<SystemState>,
     /// Every ion with its activity coefficient, the complexes and the saturation indices.
     pub speciation: Speciation,
+    /// The hardness the recipe's ligands hold at its pH (none without calcium in the library).
+    pub capacity: Option<crate::chelant::Capacity>,
     /// Validity warnings in plain words (model range, pH range, convergence).
     pub warnings: Vec<String>,
 }
@@ -59,7 +61,16 @@ pub fn evaluate_with(
     let systems = solver::system_states(constants, &composition, &solution);
     let speciation = solver::speciation(constants, &composition, &solution);
     let warnings = warnings(constants, &composition, &solution, &speciation);
+    let capacity = crate::chelant::capacity(
+        library,
+        constants,
+        &batch,
+        &composition,
+        &solution,
+        &systems,
+    );
     Ok(Report {
+        capacity,
         conditions: constants.conditions,
         batch,
         composition,

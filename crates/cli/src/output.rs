@@ -102,14 +102,7 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
             .get(system)
             .and_then(|sys| r.active_forms.get(&sys.id).copied())
     });
-    let capacity = saltwise_chem::chelant::capacity(
-        lib,
-        &constants,
-        &report.batch,
-        &report.composition,
-        s,
-        &report.systems,
-    );
+    let capacity = &report.capacity;
     if args.json {
         let v = json!({
             "ph": s.ph,

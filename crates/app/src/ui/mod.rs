@@ -4,6 +4,7 @@ pub mod cautions;
 pub mod custom_ingredient;
 pub mod design;
 pub mod dose_curve;
+pub mod hardness;
 pub mod readout;
 pub mod recipe_table;
 pub mod species_chart;

@@ -29,6 +29,10 @@ pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine, refused
             conditions_ui(ui, settings, refused);
         }
         drift_ui(ui, engine);
+        if let Some(text) = engine.solved().and_then(super::hardness::summary) {
+            ui.separator();
+            ui.label(text);
+        }
         if let Some((text, done)) = super::tolerance::band_text(engine) {
             let text = RichText::new(text);
             ui.label(if done { text.strong() } else { text.weak() });

@@ -55,21 +55,8 @@ impl Hardness {
 
     /// Checks the values against their ranges.
     pub fn check(&self) -> Result<(), RecipeError> {
-        if !(self.ppm_caco3.is_finite() && (0.0..=MAX_PPM).contains(&self.ppm_caco3)) {
-            return Err(RecipeError::BadUnit {
-                id: "water hardness".into(),
-                message: format!("{} ppm as CaCO₃ is outside 0–{MAX_PPM}", self.ppm_caco3),
-            });
-        }
-        if !(self.calcium_share.is_finite() && (0.0..=1.0).contains(&self.calcium_share)) {
-            return Err(RecipeError::BadUnit {
-                id: "water hardness".into(),
-                message: format!(
-                    "calcium share {} is outside 0–1 (the rest is magnesium)",
-                    self.calcium_share
-                ),
-            });
-        }
+        crate::limits::HARDNESS_PPM.check(self.ppm_caco3)?;
+        crate::limits::CALCIUM_SHARE.check(self.calcium_share)?;
         Ok(())
     }
 

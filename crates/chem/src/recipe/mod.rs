@@ -4,7 +4,7 @@
 //! resolved to masses, water and molal totals.
 
 mod batch;
-mod hardness;
+pub(crate) mod hardness;
 mod totals;
 
 use serde::{Deserialize, Serialize};

@@ -1,0 +1,97 @@
+//! Hard water, ions and scale in the window, used as a person does.
+
+mod common;
+
+use common::{Folders, harness_in, type_into};
+use egui_kittest::kittest::Queryable as _;
+use saltwise_chem::project::Project;
+use saltwise_chem::{Recipe, RecipeLine};
+
+/// An invented hard-surface cleaner: sodium carbonate in water.
+fn carbonate_cleaner() -> Project {
+    let mut p = Project::with_recipe(Recipe {
+        lines: vec![
+            RecipeLine::grams("water", 990.0),
+            RecipeLine::grams("sodium_carbonate", 10.0),
+        ],
+        qs_to_g: None,
+        water_hardness: None,
+    });
+    p.name = "Kestrel hard-surface cleaner".into();
+    p
+}
+
+#[test]
+fn hard_water_shows_free_calcium_and_a_scale_caution() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness_in(carbonate_cleaner(), &Folders::under(dir.path()));
+    assert!(h.query_by_label_contains("Free Ca²⁺").is_none());
+    h.get_by_label("Hard water, ions and scale").click();
+    h.run();
+    h.get_by_label("Made with hard water").click();
+    h.run();
+    type_into(&mut h, "Water hardness", "300");
+    let recipe = h.state().project().recipe().clone();
+    let hardness = recipe.water_hardness.expect("hard water set");
+    assert_eq!(hardness.ppm_caco3, 300.0);
+    // The readout (and the open section) now name the free calcium and magnesium.
+    assert!(h.query_all_by_label_contains("Free Ca²⁺").count() >= 1);
+    // 2 mmol/kg Ca²⁺ with 94 mmol/kg carbonate at pH 11 is far above calcite's Ksp
+    // (10^−8.48, Plummer & Busenberg 1982, from memory): a scale caution shows.
+    let report = h.state().engine().solved().unwrap();
+    let si = report.speciation.saturation_index("calcite").unwrap();
+    assert!(si > 1.0, "{si}");
+    assert!(
+        h.query_by_label_contains("Scale: calcite can deposit")
+            .is_some()
+    );
+    // The saturation table marks it too.
+    assert!(h.query_all_by_label_contains("can deposit").count() >= 2);
+    // Off again: the water is purified, and nothing about calcium is left.
+    h.get_by_label("Made with hard water").click();
+    h.run();
+    assert!(h.state().project().recipe().water_hardness.is_none());
+    assert_eq!(h.query_all_by_label_contains("Free Ca²⁺").count(), 0);
+}
+
+#[test]
+fn a_hardness_out_of_range_is_refused_beside_the_field() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness_in(carbonate_cleaner(), &Folders::under(dir.path()));
+    h.get_by_label("Hard water, ions and scale").click();
+    h.run();
+    h.get_by_label("Made with hard water").click();
+    h.run();
+    type_into(&mut h, "Water hardness", "20000");
+    assert!(h.query_by_label_contains("10 000 ppm").is_some());
+    assert_eq!(
+        h.state()
+            .project()
+            .recipe()
+            .water_hardness
+            .unwrap()
+            .ppm_caco3,
+        250.0
+    );
+}
+
+#[test]
+fn the_ion_list_names_the_model_and_the_estimated_coefficients() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut project = carbonate_cleaner();
+    project.settings.activity = saltwise_chem::ActivityModel::Pitzer;
+    let mut h = harness_in(project, &Folders::under(dir.path()));
+    h.get_by_label("Hard water, ions and scale").click();
+    h.run();
+    h.get_by_label("Every ion (Pitzer activity model)").click();
+    h.run();
+    h.get_by_label("carbonic/2");
+    // Na⁺ with CO₃²⁻ has published parameters (Harvie, Møller & Weare 1984): not estimated.
+    let report = h.state().engine().solved().unwrap();
+    assert!(
+        !report
+            .speciation
+            .fallback_ions()
+            .contains(&"carbonic/2".to_owned())
+    );
+}
