@@ -20,3 +20,22 @@ pub fn twelve_ingredients() -> Recipe {
         ("sodium_sulfate", 1.0),
     ])
 }
+
+/// Twelve ingredients with calcium, magnesium and two chelants (EDTA, citrate): an invented
+/// hard-water dish liquid base.
+pub fn twelve_with_hardness() -> Recipe {
+    Recipe::in_grams(&[
+        ("water", 900.0),
+        ("calcium_chloride_dihydrate", 0.6),
+        ("magnesium_sulfate_heptahydrate", 0.5),
+        ("tetrasodium_edta_39", 8.0),
+        ("trisodium_citrate_dihydrate", 10.0),
+        ("citric_acid_monohydrate", 2.0),
+        ("sodium_carbonate", 3.0),
+        ("sodium_bicarbonate", 1.0),
+        ("sodium_chloride", 5.0),
+        ("potassium_chloride", 1.0),
+        ("disodium_hydrogen_phosphate", 1.0),
+        ("sodium_benzoate", 2.0),
+    ])
+}
