@@ -130,7 +130,7 @@ proptest! {
         c.proton_excess -= sign * excess;
         let s = solver::solve(&constants, &c, None);
         prop_assert!(s.ph.is_finite() && s.ionic_strength.is_finite());
-        let sp = solver::speciation(&constants, &c, &s);
+        let sp = solver::speciation(&lib, &constants, &c, &s);
         let warnings = saltwise_chem::report::warnings(&constants, &c, &s, &sp);
         if s.converged() {
             prop_assert!(s.charge_residual < 1e-10, "charge residual {}", s.charge_residual);

@@ -34,9 +34,12 @@ fn benches(c: &mut Criterion) {
     );
     let hard = twelve_with_hardness().batch(&lib).expect("valid recipe");
     let hard_composition = hard.composition(&lib).expect("water");
-    c.bench_function("solve 12 ingredients with Ca, Mg, EDTA and citrate, Davies", |b| {
-        b.iter(|| solver::solve(&davies, black_box(&hard_composition), None));
-    });
+    c.bench_function(
+        "solve 12 ingredients with Ca, Mg, EDTA and citrate, Davies",
+        |b| {
+            b.iter(|| solver::solve(&davies, black_box(&hard_composition), None));
+        },
+    );
     let hard_doser = Doser::new(&lib, &davies, &hard, "sodium_hydroxide_50").expect("adjuster");
     c.bench_function("dose curve 512 points with Ca, Mg, EDTA and citrate", |b| {
         b.iter(|| hard_doser.curve(black_box(20.0), 512))
@@ -48,9 +51,12 @@ fn benches(c: &mut Criterion) {
             ..Conditions::default()
         },
     );
-    c.bench_function("solve 12 ingredients with Ca, Mg, EDTA and citrate, Pitzer", |b| {
-        b.iter(|| solver::solve(&pitzer, black_box(&hard_composition), None));
-    });
+    c.bench_function(
+        "solve 12 ingredients with Ca, Mg, EDTA and citrate, Pitzer",
+        |b| {
+            b.iter(|| solver::solve(&pitzer, black_box(&hard_composition), None));
+        },
+    );
     let citric = lib.system_index("citric").expect("citric");
     c.bench_function("species chart 400 points", |b| {
         b.iter(|| {

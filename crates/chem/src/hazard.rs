@@ -86,7 +86,7 @@ pub fn assemble(
         items.push(c);
     }
     if let (Some(s), Ok(composition)) = (solution, batch.composition(library)) {
-        let sp = crate::solver::speciation(constants, &composition, s);
+        let sp = crate::solver::speciation(library, constants, &composition, s);
         items.extend(scale_cautions(&sp));
     }
     // The reserve is a screening extra: a product it cannot be computed for simply has none.

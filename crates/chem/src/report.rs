@@ -59,7 +59,7 @@ pub fn evaluate_with(
     let composition = batch.composition(library)?;
     let solution = solver::solve(constants, &composition, None);
     let systems = solver::system_states(constants, &composition, &solution);
-    let speciation = solver::speciation(constants, &composition, &solution);
+    let speciation = solver::speciation(library, constants, &composition, &solution);
     let warnings = warnings(constants, &composition, &solution, &speciation);
     let capacity = crate::chelant::capacity(
         library,

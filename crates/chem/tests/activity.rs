@@ -43,7 +43,7 @@ fn mean_gamma(lib: &Library, cation: &str, anion: &str, m: f64) -> (f64, f64) {
     let c = salt(lib, cation, anion, m);
     let s = solver::solve(&k, &c, None);
     assert!(s.converged(), "{cation} {anion} {m}: {:?}", s.status);
-    let sp = speciation(&k, &c, &s);
+    let sp = speciation(lib, &k, &c, &s);
     let g = |id: &str| {
         sp.ions
             .iter()

@@ -68,7 +68,7 @@ fn calcium_edta_conditional_constant_follows_the_published_alpha() {
         let c = doser.composition(dose.amount_g);
         let s = doser.solve(dose.amount_g, None);
         assert!(s.converged());
-        let sp = speciation(&constants, &c, &s);
+        let sp = speciation(&lib, &constants, &c, &s);
         let cay = sp
             .complexes
             .iter()

@@ -23,6 +23,7 @@ pub fn twelve_ingredients() -> Recipe {
 
 /// Twelve ingredients with calcium, magnesium and two chelants (EDTA, citrate): an invented
 /// hard-water dish liquid base.
+#[allow(dead_code, reason = "each benchmark file uses some of the recipes")]
 pub fn twelve_with_hardness() -> Recipe {
     Recipe::in_grams(&[
         ("water", 900.0),

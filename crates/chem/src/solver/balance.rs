@@ -50,6 +50,18 @@ pub struct ChargeBalance<'a> {
     /// ln free molality of each bound metal (warm start).
     u: Vec<f64>,
     totals: Vec<f64>,
+    /// Scratch of the bound state and the free distributions, reused by every evaluation.
+    state: BoundState,
+    dist: Distributions,
+}
+
+/// Free-form distributions of every slot (flat) with their ⟨j⟩ and Var(j).
+#[derive(Debug, Clone, Default)]
+struct Distributions {
+    q: Vec<f64>,
+    q_start: Vec<usize>,
+    mean: Vec<f64>,
+    variance: Vec<f64>,
 }
 
 impl<'a> ChargeBalance<'a> {
@@ -91,6 +103,8 @@ impl<'a> ChargeBalance<'a> {
             binding,
             u,
             totals: composition.systems.iter().map(|&(_, t)| t).collect(),
+            state: BoundState::default(),
+            dist: Distributions::default(),
         };
         b.set_ionic_strength(0.0);
         b
@@ -167,44 +181,53 @@ impl<'a> ChargeBalance<'a> {
         (&self.layout, &self.binding, self.pitzer.as_ref())
     }
 
-    /// Free-form distribution of every slot at 1/a(H⁺), with its ⟨j⟩ and Var(j).
-    fn distributions(&self, inv_h: f64) -> (Vec<Vec<f64>>, Vec<f64>, Vec<f64>) {
-        let mut q = Vec::with_capacity(self.totals.len());
-        let mut mean = Vec::with_capacity(self.totals.len());
-        let mut var = Vec::with_capacity(self.totals.len());
+    /// Free-form distribution of every slot at 1/a(H⁺) into `q` (flat, by `q_start`), with
+    /// each slot's ⟨j⟩ and Var(j).
+    fn distributions(&mut self, inv_h: f64) {
+        let d = &mut self.dist;
+        d.q.clear();
+        d.q_start.clear();
+        d.mean.clear();
+        d.variance.clear();
         let mut offset = 0;
         for &(system, _) in &self.composition.systems {
             let n = self.constants.ka(system).len();
-            let mut t = Vec::with_capacity(n + 1);
-            t.push(1.0);
+            let start = d.q.len();
+            d.q_start.push(start);
+            d.q.push(1.0);
+            let mut t = 1.0;
+            let mut sum = 1.0;
             for k in 0..n {
-                t.push(t[k] * self.ka_c[offset + k] * inv_h);
+                t *= self.ka_c[offset + k] * inv_h;
+                d.q.push(t);
+                sum += t;
             }
             offset += n;
-            let sum: f64 = t.iter().sum();
-            t.iter_mut().for_each(|x| *x /= sum);
-            let m1: f64 = t.iter().enumerate().map(|(j, x)| j as f64 * x).sum();
-            let m2: f64 = t.iter().enumerate().map(|(j, x)| (j * j) as f64 * x).sum();
-            mean.push(m1);
-            var.push((m2 - m1 * m1).max(0.0));
-            q.push(t);
+            let inv = 1.0 / sum;
+            let (mut m1, mut m2) = (0.0, 0.0);
+            for (j, x) in d.q[start..].iter_mut().enumerate() {
+                *x *= inv;
+                m1 += j as f64 * *x;
+                m2 += (j * j) as f64 * *x;
+            }
+            d.mean.push(m1);
+            d.variance.push((m2 - m1 * m1).max(0.0));
         }
-        (q, mean, var)
     }
 
     /// The bound state at a pH, solving the metal balances from the warm start.
-    fn bound(&mut self, inv_h: f64, oh: f64) -> (BoundState, Vec<Vec<f64>>, Vec<f64>) {
-        let (q, mean, var) = self.distributions(inv_h);
+    fn bound(&mut self, inv_h: f64, oh: f64) {
+        self.distributions(inv_h);
         let inputs = Inputs {
             k_cond: &self.k_cond,
-            q: &q,
-            mean: &mean,
-            variance: &var,
+            q: &self.dist.q,
+            q_start: &self.dist.q_start,
+            mean: &self.dist.mean,
+            variance: &self.dist.variance,
             totals: &self.totals,
             oh,
         };
-        let state = self.binding.solve(&inputs, &mut self.u);
-        (state, q, mean)
+        self.binding.solve(&inputs, &mut self.u, &mut self.state);
     }
 
     /// The residual, its derivative and the ionic strength at a pH.
@@ -257,7 +280,8 @@ impl<'a> ChargeBalance<'a> {
         oh_molal: f64,
         [mut residual, mut scale, mut z2_sum]: [f64; 3],
     ) -> Evaluation {
-        let (state, q, _) = self.bound(inv_h, oh_molal);
+        self.bound(inv_h, oh_molal);
+        let state = &self.state;
         let c = self.composition;
         let mut protons_removed = 0.0;
         for (slot, &(system, total)) in c.systems.iter().enumerate() {
@@ -265,7 +289,9 @@ impl<'a> ChargeBalance<'a> {
             residual += total * f64::from(z0) - state.protons_removed[slot];
             protons_removed += state.protons_removed[slot];
             let s = state.free_total[slot];
-            for (j, qj) in q[slot].iter().enumerate() {
+            let start = self.dist.q_start[slot];
+            let n = self.constants.ka(system).len();
+            for (j, qj) in self.dist.q[start..=start + n].iter().enumerate() {
                 let z = f64::from(z0 - j as i32);
                 scale += s * qj * z.abs();
                 z2_sum += s * qj * z * z;
@@ -311,27 +337,31 @@ impl<'a> ChargeBalance<'a> {
         for (slot, &(_, molal)) in self.composition.ions.iter().enumerate() {
             m[self.layout.ion(slot)] = molal;
         }
-        let (state, q, _) = if self.binding.is_empty() {
-            let (q, mean, _) = self.distributions(inv_h);
-            let state = BoundState {
-                free_total: self.totals.clone(),
-                ..BoundState::default()
-            };
-            (state, q, mean)
+        if self.binding.is_empty() {
+            self.distributions(inv_h);
         } else {
-            self.bound(inv_h, m[OH])
-        };
-        for (n, metal) in self.binding.metals.iter().enumerate() {
-            m[self.layout.ion(metal.slot)] = state.free[n];
+            self.bound(inv_h, m[OH]);
         }
-        for (slot, qs) in q.iter().enumerate() {
+        let bound = !self.binding.is_empty();
+        for (n, metal) in self.binding.metals.iter().enumerate() {
+            m[self.layout.ion(metal.slot)] = self.state.free[n];
+        }
+        for (slot, &(system, total)) in self.composition.systems.iter().enumerate() {
             let start = self.layout.form_start[slot];
-            for (j, qj) in qs.iter().enumerate() {
-                m[start + j] = state.free_total[slot] * qj;
+            let q0 = self.dist.q_start[slot];
+            let free = if bound {
+                self.state.free_total[slot]
+            } else {
+                total
+            };
+            for j in 0..=self.constants.ka(system).len() {
+                m[start + j] = free * self.dist.q[q0 + j];
             }
         }
-        for (k, amount) in state.complex.iter().enumerate() {
-            m[self.layout.complex_start + k] = *amount;
+        if bound {
+            for (k, amount) in self.state.complex.iter().enumerate() {
+                m[self.layout.complex_start + k] = *amount;
+            }
         }
         m[self.layout.unattributed] = self.layout.unattributed_charge.abs();
         m

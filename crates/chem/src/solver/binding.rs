@@ -117,7 +117,8 @@ impl Binding {
     }
 }
 
-/// The bound state at one pH: complexes, free ligand totals and derivatives.
+/// The bound state at one pH: complexes, free ligand totals and derivatives, with the scratch
+/// space of the metal Newton iteration (kept between evaluations so none allocates).
 #[derive(Debug, Clone, Default)]
 pub struct BoundState {
     /// Free metal molalities.
@@ -128,21 +129,33 @@ pub struct BoundState {
     pub free_total: Vec<f64>,
     /// Per system slot: protons removed from the system, free and bound, mol/kg.
     pub protons_removed: Vec<f64>,
-    /// d(charge residual)/dpH with the metal balances held closed.
+    /// d(charge residual)/dpH correction for the metal balances held closed.
     pub derivative_correction: f64,
     /// Largest relative metal-balance residual.
     pub metal_residual: f64,
-    /// ∂(protons removed, all slots, plus hydroxo OH)/∂pH at fixed free metals, for the residual.
+    /// ∂(bound part of the charge residual)/∂pH at fixed free metals.
     pub partial_p: f64,
+    f: Vec<f64>,
+    jac: Vec<f64>,
+    work: Vec<f64>,
+    step: Vec<f64>,
+    dln_c: Vec<f64>,
+    dp_slot: Vec<f64>,
+    dln_d: Vec<f64>,
+    dsum_ja: Vec<f64>,
+    dr: Vec<f64>,
+    dfdp: Vec<f64>,
 }
 
 /// Inputs of one bound-state evaluation.
 pub struct Inputs<'a> {
     /// Conditional formation constant of each complex (molal).
     pub k_cond: &'a [f64],
-    /// Free-form distribution q_j of each slot (empty for slots nothing binds).
-    pub q: &'a [Vec<f64>],
-    /// ⟨j⟩ and Var(j) of each slot's free distribution.
+    /// Free-form distribution q_j of every slot, flat; slot s starts at `q_start[s]`.
+    pub q: &'a [f64],
+    /// Start of each slot's distribution in `q`.
+    pub q_start: &'a [usize],
+    /// ⟨j⟩ of each slot's free distribution.
     pub mean: &'a [f64],
     /// Var(j) of each slot.
     pub variance: &'a [f64],
@@ -156,176 +169,188 @@ const LN10: f64 = std::f64::consts::LN_10;
 
 impl Binding {
     /// Solves the metal balances at fixed free-ligand distributions, from `u` (ln free metal,
-    /// updated in place), and returns the bound state with dR/dpH's correction.
-    pub fn solve(&self, inputs: &Inputs<'_>, u: &mut [f64]) -> BoundState {
+    /// updated in place), leaving the bound state and dR/dpH's correction in `state`.
+    pub fn solve(&self, inputs: &Inputs<'_>, u: &mut [f64], state: &mut BoundState) {
         let k = self.metals.len();
+        let d = k + 1;
+        let resize = |v: &mut Vec<f64>, n: usize| {
+            v.clear();
+            v.resize(n, 0.0);
+        };
+        resize(&mut state.f, k);
+        resize(&mut state.jac, k * k);
+        resize(&mut state.free, k);
+        resize(&mut state.complex, self.complexes.len());
+        resize(&mut state.dln_c, self.complexes.len() * d);
+        resize(&mut state.dp_slot, self.by_slot.len() * d);
+        resize(&mut state.protons_removed, self.by_slot.len());
+        resize(&mut state.dln_d, d);
+        resize(&mut state.dsum_ja, d);
+        resize(&mut state.dr, d);
+        resize(&mut state.dfdp, k);
         for (n, m) in self.metals.iter().enumerate() {
             let top = m.total.ln();
             if !u[n].is_finite() || u[n] > top {
                 u[n] = top;
             }
         }
-        let mut jac = vec![0.0; k * k];
-        let mut f = vec![0.0; k];
         let mut worst = f64::INFINITY;
         for _ in 0..200 {
-            self.residuals(inputs, u, &mut f, &mut jac, None);
+            self.residuals(inputs, u, state);
             worst = self
                 .metals
                 .iter()
-                .zip(&f)
+                .zip(&state.f)
                 .map(|(m, r)| (r / m.total).abs())
                 .fold(0.0, f64::max);
             if worst < 1e-14 {
                 break;
             }
-            let mut step: Vec<f64> = f.iter().map(|r| -r).collect();
-            if !solve_linear(&mut jac.clone(), &mut step, k) {
+            state.step.clear();
+            state.step.extend(state.f.iter().map(|r| -r));
+            state.work.clear();
+            state.work.extend_from_slice(&state.jac);
+            if !solve_linear(&mut state.work, &mut state.step, k) {
                 break;
             }
-            let big = step.iter().fold(0.0f64, |a, s| a.max(s.abs()));
+            let big = state.step.iter().fold(0.0f64, |a, s| a.max(s.abs()));
             let scale = if big > 2.0 { 2.0 / big } else { 1.0 };
             for (n, m) in self.metals.iter().enumerate() {
-                u[n] = (u[n] + scale * step[n]).min(m.total.ln());
+                u[n] = (u[n] + scale * state.step[n]).min(m.total.ln());
             }
         }
-        let mut state = BoundState::default();
-        let mut dp = vec![0.0; k];
-        self.residuals(inputs, u, &mut f, &mut jac, Some((&mut state, &mut dp)));
+        if worst >= 1e-14 {
+            // The state left is that of the last step; evaluate it so everything matches `u`.
+            self.residuals(inputs, u, state);
+        }
         state.metal_residual = worst;
-        // dR/dpH = ∂R/∂p − ∂R/∂u · J⁻¹ ∂F/∂p; ∂R/∂u is stored in `dp`'s partner below.
-        state
+        self.derivatives(state);
     }
 
-    /// Metal residuals F and Jacobian ∂F/∂u at `u`; with `full`, the bound state too.
-    fn residuals(
-        &self,
-        inputs: &Inputs<'_>,
-        u: &[f64],
-        f: &mut [f64],
-        jac: &mut [f64],
-        full: Option<(&mut BoundState, &mut Vec<f64>)>,
-    ) {
+    /// Metal residuals F, Jacobian ∂F/∂u and the bound state at `u`.
+    fn residuals(&self, inputs: &Inputs<'_>, u: &[f64], st: &mut BoundState) {
         let k = self.metals.len();
         let d = k + 1; // derivative index 0 = pH, 1.. = ln m
-        let free: Vec<f64> = u.iter().map(|x| x.exp()).collect();
-        for (n, r) in f.iter_mut().enumerate() {
-            *r = free[n] - self.metals[n].total;
-        }
-        jac.iter_mut().for_each(|x| *x = 0.0);
         for n in 0..k {
-            jac[n * k + n] = free[n];
+            st.free[n] = u[n].exp();
+            st.f[n] = st.free[n] - self.metals[n].total;
         }
-        let mut complex = vec![0.0; self.complexes.len()];
-        // ∂ln C_c over (p, u).
-        let mut dln_c = vec![0.0; self.complexes.len() * d];
-        let slots = self.by_slot.len();
-        let mut free_total = inputs.totals.to_vec();
-        let mut protons = vec![0.0; slots];
-        // ∂P_L over (p, u).
-        let mut dp_slot = vec![0.0; slots * d];
-        for slot in 0..slots {
+        st.jac.iter_mut().for_each(|x| *x = 0.0);
+        for n in 0..k {
+            st.jac[n * k + n] = st.free[n];
+        }
+        st.free_total.clear();
+        st.free_total.extend_from_slice(inputs.totals);
+        for slot in 0..self.by_slot.len() {
             let list = &self.by_slot[slot];
             let total = inputs.totals[slot];
             let mean = inputs.mean[slot];
+            let dps = &mut st.dp_slot[slot * d..(slot + 1) * d];
+            dps.iter_mut().for_each(|x| *x = 0.0);
             if list.is_empty() {
-                protons[slot] = total * mean;
-                dp_slot[slot * d] = total * LN10 * inputs.variance[slot];
+                st.protons_removed[slot] = total * mean;
+                dps[0] = total * LN10 * inputs.variance[slot];
                 continue;
             }
-            let q = &inputs.q[slot];
+            let q = &inputs.q[inputs.q_start[slot]..];
             let mut denom = 1.0;
-            let mut a = Vec::with_capacity(list.len());
+            for &c in list {
+                let b = self.complexes[c];
+                if let Ligand::Form { form, .. } = b.ligand {
+                    let ac = inputs.k_cond[c] * q[form] * st.free[b.metal];
+                    st.complex[c] = ac;
+                    denom += ac;
+                }
+            }
+            let s = total / denom;
+            st.free_total[slot] = s;
+            st.dln_d.iter_mut().for_each(|x| *x = 0.0);
             for &c in list {
                 let b = self.complexes[c];
                 let Ligand::Form { form, .. } = b.ligand else {
                     continue;
                 };
-                let ac = inputs.k_cond[c] * q[form] * free[b.metal];
-                a.push((c, form, ac));
-                denom += ac;
-            }
-            let s = total / denom;
-            free_total[slot] = s;
-            // ∂ln D over (p, u).
-            let mut dln_d = vec![0.0; d];
-            for &(c, form, ac) in &a {
-                let w = ac / denom;
-                dln_d[0] += w * LN10 * (form as f64 - mean);
-                dln_d[1 + self.complexes[c].metal] += w;
+                let w = st.complex[c] / denom;
+                st.dln_d[0] += w * LN10 * (form as f64 - mean);
+                st.dln_d[1 + b.metal] += w;
             }
             let mut sum_ja = 0.0;
-            let mut dsum_ja = vec![0.0; d];
-            for &(c, form, ac) in &a {
-                let metal = self.complexes[c].metal;
-                complex[c] = ac * s;
-                let row = &mut dln_c[c * d..(c + 1) * d];
-                row[0] = LN10 * (form as f64 - mean) - dln_d[0];
+            st.dsum_ja.iter_mut().for_each(|x| *x = 0.0);
+            for &c in list {
+                let b = self.complexes[c];
+                let Ligand::Form { form, .. } = b.ligand else {
+                    continue;
+                };
+                let ac = st.complex[c];
+                let row = &mut st.dln_c[c * d..(c + 1) * d];
+                row[0] = LN10 * (form as f64 - mean) - st.dln_d[0];
                 for (n, r) in row.iter_mut().enumerate().skip(1) {
-                    *r = -dln_d[n];
+                    *r = -st.dln_d[n];
                 }
-                row[1 + metal] += 1.0;
+                row[1 + b.metal] += 1.0;
                 let j = form as f64;
                 sum_ja += j * ac;
-                dsum_ja[0] += j * ac * LN10 * (j - mean);
-                dsum_ja[1 + metal] += j * ac;
+                st.dsum_ja[0] += j * ac * LN10 * (j - mean);
+                st.dsum_ja[1 + b.metal] += j * ac;
+                st.complex[c] = ac * s;
             }
             let p_l = s * (mean + sum_ja);
-            protons[slot] = p_l;
+            st.protons_removed[slot] = p_l;
             for v in 0..d {
                 let own = if v == 0 {
                     LN10 * inputs.variance[slot]
                 } else {
                     0.0
                 };
-                dp_slot[slot * d + v] = -p_l * dln_d[v] + s * (own + dsum_ja[v]);
+                dps[v] = -p_l * st.dln_d[v] + s * (own + st.dsum_ja[v]);
             }
         }
         for &c in &self.hydroxo {
             let b = self.complexes[c];
-            complex[c] = inputs.k_cond[c] * free[b.metal] * inputs.oh;
-            let row = &mut dln_c[c * d..(c + 1) * d];
+            st.complex[c] = inputs.k_cond[c] * st.free[b.metal] * inputs.oh;
+            let row = &mut st.dln_c[c * d..(c + 1) * d];
+            row.iter_mut().for_each(|x| *x = 0.0);
             row[0] = LN10;
             row[1 + b.metal] = 1.0;
         }
         for (c, b) in self.complexes.iter().enumerate() {
             let n = b.metal;
-            f[n] += complex[c];
+            st.f[n] += st.complex[c];
             for m in 0..k {
-                jac[n * k + m] += complex[c] * dln_c[c * d + 1 + m];
+                st.jac[n * k + m] += st.complex[c] * st.dln_c[c * d + 1 + m];
             }
         }
-        let Some((state, dfdp)) = full else {
-            return;
-        };
-        // ∂F/∂p, ∂R/∂p and ∂R/∂u, with R's bound part −Σ P_L − Σ hydroxo C.
-        dfdp.iter_mut().for_each(|x| *x = 0.0);
+    }
+
+    /// ∂F/∂p, ∂R/∂p and ∂R/∂u at the last residuals, with R's bound part −Σ P_L − Σ hydroxo C,
+    /// and the correction −∂R/∂u · J⁻¹ · ∂F/∂p.
+    fn derivatives(&self, st: &mut BoundState) {
+        let k = self.metals.len();
+        let d = k + 1;
+        st.dfdp.iter_mut().for_each(|x| *x = 0.0);
         for (c, b) in self.complexes.iter().enumerate() {
-            dfdp[b.metal] += complex[c] * dln_c[c * d];
+            st.dfdp[b.metal] += st.complex[c] * st.dln_c[c * d];
         }
-        let mut dr = vec![0.0; d];
-        for slot in 0..slots {
+        st.dr.iter_mut().for_each(|x| *x = 0.0);
+        for slot in 0..self.by_slot.len() {
             for v in 0..d {
-                dr[v] -= dp_slot[slot * d + v];
+                st.dr[v] -= st.dp_slot[slot * d + v];
             }
         }
         for &c in &self.hydroxo {
             for v in 0..d {
-                dr[v] -= complex[c] * dln_c[c * d + v];
+                st.dr[v] -= st.complex[c] * st.dln_c[c * d + v];
             }
         }
-        let mut x = dfdp.clone();
-        let correction = if k > 0 && solve_linear(&mut jac.to_vec(), &mut x, k) {
-            -(0..k).map(|n| dr[1 + n] * x[n]).sum::<f64>()
+        st.work.clear();
+        st.work.extend_from_slice(&st.jac);
+        let correction = if k > 0 && solve_linear(&mut st.work, &mut st.dfdp, k) {
+            -(0..k).map(|n| st.dr[1 + n] * st.dfdp[n]).sum::<f64>()
         } else {
             0.0
         };
-        state.free = free;
-        state.complex = complex;
-        state.free_total = free_total;
-        state.protons_removed = protons;
-        state.partial_p = dr[0];
-        state.derivative_correction = correction;
+        st.partial_p = st.dr[0];
+        st.derivative_correction = correction;
     }
 }
 

@@ -127,10 +127,10 @@ impl Layout {
                 model.pairs.push(Pair {
                     cation: c,
                     anion: a,
-                    beta0: p.beta0,
-                    beta1: p.beta1,
-                    beta2: p.beta2,
-                    c_phi: p.c_phi,
+                    beta0: p[0],
+                    beta1: p[1],
+                    beta2: p[2],
+                    c_phi: p[3],
                 });
             }
         }

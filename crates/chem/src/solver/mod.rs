@@ -75,13 +75,10 @@ pub struct Constants {
     pub(crate) complexes: Vec<ComplexConstant>,
     /// Every library solid at the temperature, in library order.
     pub(crate) solids: Vec<SolidConstant>,
-    /// The library's Pitzer parameters.
-    pub(crate) pitzer: PitzerTable,
+    /// The library's Pitzer parameters, numbers only.
+    pub(crate) pitzer: PitzerParams,
     /// Charge of every library ion.
     pub(crate) ion_charges: Vec<i32>,
-    /// Ids of the library ions and systems, for naming species.
-    pub(crate) ion_ids: Vec<String>,
-    pub(crate) system_ids: Vec<String>,
     /// Index of hydroxide among the ions.
     pub(crate) hydroxide: usize,
     /// Index of hydron among the ions.
@@ -90,10 +87,33 @@ pub struct Constants {
     pub(crate) pitzer_reference: [f64; 3],
 }
 
+/// Pitzer parameters by species: pairs (β⁽⁰⁾, β⁽¹⁾, β⁽²⁾, C^φ), θ and ψ.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub(crate) struct PitzerParams {
+    pub pairs: Vec<(Species, Species, [f64; 4])>,
+    pub mixing: Vec<(Species, Species, f64)>,
+    pub triples: Vec<(Species, Species, Species, f64)>,
+}
+
+impl PitzerParams {
+    fn of(table: &PitzerTable) -> Self {
+        Self {
+            pairs: table
+                .pairs
+                .iter()
+                .map(|(c, a, p)| (*c, *a, [p.beta0, p.beta1, p.beta2, p.c_phi]))
+                .collect(),
+            mixing: table.mixing.clone(),
+            triples: table.triples.clone(),
+        }
+    }
+}
+
 /// A complex's constant at a temperature, with its metal and ligand.
 #[derive(Debug, Clone, PartialEq)]
 pub(crate) struct ComplexConstant {
-    pub id: String,
+    /// Index into the library's complexes.
+    pub index: usize,
     pub metal: usize,
     pub ligand: Species,
     pub charge: i32,
@@ -106,7 +126,8 @@ pub(crate) struct ComplexConstant {
 /// A solid's solubility product at a temperature.
 #[derive(Debug, Clone, PartialEq)]
 pub(crate) struct SolidConstant {
-    pub id: String,
+    /// Index into the library's solids.
+    pub index: usize,
     pub components: Vec<(Species, f64)>,
     pub log_ksp: f64,
 }
@@ -134,11 +155,12 @@ impl Constants {
             }
         }
         ka_start.push(ka.len());
-        let pitzer = library.pitzer().clone();
+        let pitzer = PitzerParams::of(library.pitzer());
         let complexes = library
             .complexes()
             .iter()
-            .map(|c| {
+            .enumerate()
+            .map(|(index, c)| {
                 // log K(I) = log K° − A·f(I)·(z_M² + z_L² − z_ML²), as for the pKa values.
                 let z_m = library.ions()[c.metal].charge;
                 let z_l = library.species_charge(c.ligand);
@@ -147,7 +169,7 @@ impl Constants {
                     c.data.log_k + a25 * f * f64::from(z_m * z_m + z_l * z_l - c.charge * c.charge);
                 let log_k = -temperature::pka_at(-log_k0, c.data.dh_kj_mol, 0.0, temp_k);
                 ComplexConstant {
-                    id: c.data.id.clone(),
+                    index,
                     metal: c.metal,
                     ligand: c.ligand,
                     charge: c.charge,
@@ -162,8 +184,9 @@ impl Constants {
         let solids = library
             .solids()
             .iter()
-            .map(|s| SolidConstant {
-                id: s.data.id.clone(),
+            .enumerate()
+            .map(|(index, s)| SolidConstant {
+                index,
                 components: s.components.clone(),
                 log_ksp: -temperature::pka_at(-s.data.log_ksp, s.data.dh_kj_mol, 0.0, temp_k),
             })
@@ -172,7 +195,7 @@ impl Constants {
             .species("sodium")
             .zip(library.species("chloride"))
             .and_then(|(na, cl)| pitzer.pairs.iter().find(|(c, a, _)| *c == na && *a == cl))
-            .map_or([0.0; 3], |(_, _, p)| [p.beta0, p.beta1, p.c_phi]);
+            .map_or([0.0; 3], |(_, _, p)| [p[0], p[1], p[3]]);
         Self {
             conditions,
             kw: 10f64.powf(-water::pkw(conditions.temp_c)),
@@ -184,8 +207,6 @@ impl Constants {
             solids,
             pitzer,
             ion_charges: library.ions().iter().map(|i| i.charge).collect(),
-            ion_ids: library.ions().iter().map(|i| i.id.clone()).collect(),
-            system_ids: library.systems().iter().map(|s| s.id.clone()).collect(),
             hydroxide: library.hydroxide(),
             hydron: library.hydron(),
             pitzer_reference: reference,

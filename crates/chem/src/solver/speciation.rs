@@ -4,6 +4,7 @@
 use super::balance::ChargeBalance;
 use super::layout::{self, H, OH};
 use super::{Composition, Constants, Solution};
+use crate::library::Library;
 
 /// One free ion or form as the activity model treats it.
 #[derive(Debug, Clone, PartialEq)]
@@ -86,6 +87,7 @@ impl Speciation {
 
 /// The speciation of a solved composition.
 pub fn speciation(
+    library: &Library,
     constants: &Constants,
     composition: &Composition,
     solution: &Solution,
@@ -101,16 +103,16 @@ pub fn speciation(
     let gamma = model.gammas().to_vec();
     let (layout, binding, pitzer) = model.parts();
     let mut names = vec![String::new(); layout.len()];
-    names[H] = constants.ion_ids[constants.hydron].clone();
-    names[OH] = constants.ion_ids[constants.hydroxide].clone();
+    names[H] = library.ions()[constants.hydron].id.clone();
+    names[OH] = library.ions()[constants.hydroxide].id.clone();
     for (slot, &ion) in layout.ions.iter().enumerate() {
-        names[layout.ion(slot)] = constants.ion_ids[ion].clone();
+        names[layout.ion(slot)] = library.ions()[ion].id.clone();
     }
     for (slot, &(system, _)) in composition.systems.iter().enumerate() {
         for p in layout.form_start[slot]..layout.form_start[slot + 1] {
             names[p] = format!(
                 "{}/{}",
-                constants.system_ids[system],
+                library.systems()[system].id,
                 p - layout.form_start[slot]
             );
         }
@@ -119,11 +121,12 @@ pub fn speciation(
     for (k, b) in binding.complexes.iter().enumerate() {
         let c = &constants.complexes[b.constant];
         let p = layout.complex_start + k;
-        names[p] = c.id.clone();
+        let id = library.complexes()[c.index].data.id.clone();
+        names[p] = id.clone();
         complexes.push(ComplexAmount {
-            id: c.id.clone(),
-            metal: constants.ion_ids[c.metal].clone(),
-            ligand: species_name(constants, c.ligand),
+            id,
+            metal: library.ions()[c.metal].id.clone(),
+            ligand: library.species_id(c.ligand),
             charge: c.charge,
             molality: m[p],
         });
@@ -158,7 +161,7 @@ pub fn speciation(
             log_iap += count * (m[p] * gamma[p]).log10();
         }
         saturation.push(Saturation {
-            solid: s.id.clone(),
+            solid: library.solids()[s.index].data.id.clone(),
             saturation_index: log_iap - s.log_ksp,
         });
     }
@@ -168,14 +171,5 @@ pub fn speciation(
         complexes,
         saturation,
         osmotic,
-    }
-}
-
-fn species_name(constants: &Constants, species: crate::library::Species) -> String {
-    match species {
-        crate::library::Species::Ion(i) => constants.ion_ids[i].clone(),
-        crate::library::Species::Form { system, form } => {
-            format!("{}/{form}", constants.system_ids[system])
-        }
     }
 }
