@@ -128,7 +128,10 @@ impl Library {
                 .iter()
                 .any(|v| !v.is_finite() || v.abs() > 100.0)
             {
-                return Err(invalid_pitzer(&label, "parameters must be finite and under 100"));
+                return Err(invalid_pitzer(
+                    &label,
+                    "parameters must be finite and under 100",
+                ));
             }
             sourced(&label, &p.source)?;
             self.pitzer.pairs.push((cation, anion, p));
@@ -227,19 +230,24 @@ impl Library {
         if s.source.trim().is_empty() {
             return Err(bad("every solid needs the source of its constant"));
         }
-        Ok(ResolvedSolid { data: s, components })
+        Ok(ResolvedSolid {
+            data: s,
+            components,
+        })
     }
 
     fn named(&self, label: &str, id: &str) -> Result<Species, LibraryError> {
-        self.species(id).ok_or_else(|| {
-            invalid_pitzer(label, &format!("'{id}' is not an ion or SYSTEM/FORM"))
-        })
+        self.species(id)
+            .ok_or_else(|| invalid_pitzer(label, &format!("'{id}' is not an ion or SYSTEM/FORM")))
     }
 
     fn same_sign(&self, label: &str, a: Species, b: Species) -> Result<(), LibraryError> {
         let (za, zb) = (self.species_charge(a), self.species_charge(b));
         if za == 0 || za.signum() != zb.signum() || a == b {
-            return Err(invalid_pitzer(label, "needs two different ions of the same sign"));
+            return Err(invalid_pitzer(
+                label,
+                "needs two different ions of the same sign",
+            ));
         }
         Ok(())
     }
@@ -249,7 +257,10 @@ fn finite(label: &str, v: f64) -> Result<(), LibraryError> {
     if v.is_finite() && v.abs() <= 100.0 {
         Ok(())
     } else {
-        Err(invalid_pitzer(label, "the value must be finite and under 100"))
+        Err(invalid_pitzer(
+            label,
+            "the value must be finite and under 100",
+        ))
     }
 }
 
