@@ -142,7 +142,7 @@ fn a_sample_already_past_an_end_point_takes_no_titrant_and_gives_no_factor() {
     let k = Constants::new(&lib, Conditions::default());
     let t = Titrant::find(&lib, "hcl", 0.1).unwrap();
     let titration = Titration::new(&lib, &k, &batch(&lib, SCALE_LIFT), 10.0, &t).unwrap();
-    // An acidic sample (pH ≈ 2.6) has no P alkalinity (common practice, no source).
+    // An acidic sample (pH ≈ 2.2) has no P alkalinity (common practice, no source).
     let e = titration.end_point(8.3).unwrap();
     assert!(e.at_start && e.ml == 0.0, "{e:?}");
     assert!(matches!(
