@@ -49,20 +49,24 @@ pub struct DoseResult {
 }
 
 /// A batch with an adjuster to add: molal composition as a function of dose, solved on demand.
+///
+/// Doses are grams of an ingredient as supplied ([`Doser::new`]) or units of anything else whose
+/// one unit brings known water and moles ([`Doser::with_dose_unit`], e.g. mL of a titrant).
 #[derive(Debug, Clone)]
 pub struct Doser<'a> {
     constants: &'a Constants,
     adjuster: String,
     batch_mass_g: f64,
     water_kg: f64,
+    /// Water per unit of dose (per g of an adjuster), kg.
     water_kg_per_g: f64,
-    /// (system index, mol in batch, mol per g of adjuster).
+    /// (system index, mol in batch, mol per unit of dose, i.e. per g of an adjuster).
     systems: Vec<(usize, f64, f64)>,
     /// The activity model of every point: the one the batch as weighed took.
     activity: ActivityModel,
-    /// (ion index, mol in batch, mol per g of adjuster), hydron and hydroxide excluded.
+    /// (ion index, mol in batch, mol per unit of dose), hydron and hydroxide excluded.
     ions: Vec<(usize, f64, f64)>,
-    /// (Σ z·n, Σ z²·n, Σ |z|·n, proton excess) in the batch and per g.
+    /// (Σ z·n, Σ z²·n, Σ |z|·n, proton excess) in the batch and per unit of dose.
     spectators: [f64; 4],
     spectators_per_g: [f64; 4],
 }
@@ -92,11 +96,29 @@ impl<'a> Doser<'a> {
             });
         }
         let per_gram = Totals::per_gram(library, entry);
+        Ok(Self::with_dose_unit(
+            library,
+            constants,
+            batch,
+            adjuster_id,
+            &per_gram,
+        ))
+    }
+
+    /// Prepares dosing a batch with anything whose one unit of dose brings `per_unit` (water and
+    /// moles), e.g. one mL of a titrant; doses are then counted in that unit, not in grams.
+    pub fn with_dose_unit(
+        library: &Library,
+        constants: &'a Constants,
+        batch: &Batch,
+        name: &str,
+        per_unit: &Totals,
+    ) -> Self {
         let base = &batch.totals;
         let systems = base
             .system_mol
             .iter()
-            .zip(&per_gram.system_mol)
+            .zip(&per_unit.system_mol)
             .enumerate()
             .filter(|(_, (b, p))| **b > 0.0 || **p > 0.0)
             .map(|(i, (b, p))| (i, *b, *p))
@@ -104,7 +126,7 @@ impl<'a> Doser<'a> {
         let ions = base
             .ion_mol
             .iter()
-            .zip(&per_gram.ion_mol)
+            .zip(&per_unit.ion_mol)
             .enumerate()
             .filter(|(i, (b, p))| (**b > 0.0 || **p > 0.0) && !library.is_proton_ion(*i))
             .map(|(i, (b, p))| (i, *b, *p))
@@ -116,19 +138,19 @@ impl<'a> Doser<'a> {
         let mut doser = Self {
             constants,
             activity: constants.conditions.activity,
-            adjuster: adjuster_id.to_owned(),
+            adjuster: name.to_owned(),
             batch_mass_g: batch.total_mass_g,
             water_kg: base.water_kg,
-            water_kg_per_g: per_gram.water_kg,
+            water_kg_per_g: per_unit.water_kg,
             systems,
             ions,
             spectators: sums(base),
-            spectators_per_g: sums(&per_gram),
+            spectators_per_g: sums(per_unit),
         };
         if doser.activity == ActivityModel::Auto {
             doser.activity = solver::solve(constants, &doser.composition(0.0), None).activity;
         }
-        Ok(doser)
+        doser
     }
 
     /// The activity model every point is solved with.
@@ -219,6 +241,12 @@ impl<'a> Doser<'a> {
 
     /// Finds the dose that brings the batch to `target_ph`, by a bracketed root solve on the dose.
     pub fn to_target(&self, target_ph: f64) -> Result<DoseResult, DoseError> {
+        self.to_target_within(target_ph, 1e3 * self.batch_mass_g.max(1.0))
+    }
+
+    /// As [`Doser::to_target`], searching doses up to about `max_dose` (the bracket grows fourfold
+    /// at a time and stops once it has passed `max_dose`).
+    pub fn to_target_within(&self, target_ph: f64, max_dose: f64) -> Result<DoseResult, DoseError> {
         let unreachable = |reason: String| DoseError::Unreachable {
             adjuster: self.adjuster.clone(),
             target_ph,
@@ -254,12 +282,12 @@ impl<'a> Doser<'a> {
                 if f0 > 0.0 { "acid" } else { "alkali" }
             )));
         }
-        // Expand the bracket until pH passes the target, up to 1000 times the batch mass.
+        // Expand the bracket until pH passes the target, up to the largest dose searched.
         let (mut lo, mut f_lo) = (0.0, f0);
         let mut hi = 1e-3 * scale_g;
         let mut s_hi = self.solve(hi, None);
         while (s_hi.ph - target_ph).signum() == f0.signum() {
-            if hi > 1e3 * scale_g {
+            if hi > max_dose {
                 return Err(unreachable(format!(
                     "even {:.3} kg of it in this {:.0} g batch only reaches pH {:.2}",
                     hi * 1e-3,

@@ -20,6 +20,7 @@ pub mod hazard;
 pub mod library;
 pub mod limits;
 pub mod project;
+pub mod qc;
 pub mod recipe;
 pub mod report;
 pub mod reserve;

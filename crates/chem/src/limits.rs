@@ -143,8 +143,58 @@ pub const CALCIUM_SHARE: Limit = Limit {
     rule: "the calcium share of the hardness is from 0 to 1; the rest is magnesium",
 };
 
+/// The mass of a sample of product taken for a titration, g.
+pub const SAMPLE_G: Limit = Limit {
+    what: "sample",
+    min: 0.0,
+    min_inclusive: false,
+    max: 1e4,
+    unit: "g",
+    rule: "a titration sample is above 0 g and at most 10 000 g of product",
+};
+
+/// The normality of a titrant, mol of H⁺ or OH⁻ per L (its density is taken as 1.00 kg/L).
+pub const NORMALITY: Limit = Limit {
+    what: "titrant normality",
+    min: 0.0,
+    min_inclusive: false,
+    max: 1.0,
+    unit: "mol/L",
+    rule: "a titrant's normality is above 0 and at most 1 mol/L, where its density is taken as 1.00 kg/L",
+};
+
+/// The pH of a titration end point.
+pub const END_POINT_PH: Limit = Limit {
+    what: "end point pH",
+    min: 0.0,
+    min_inclusive: true,
+    max: 14.0,
+    unit: "",
+    rule: "an end point is from pH 0 to pH 14",
+};
+
+/// The volume of in-use solution titrated on the plant floor, mL.
+pub const IN_USE_SAMPLE_ML: Limit = Limit {
+    what: "in-use sample",
+    min: 0.0,
+    min_inclusive: false,
+    max: 1e4,
+    unit: "mL",
+    rule: "an in-use sample is above 0 mL and at most 10 000 mL",
+};
+
+/// The share of a product's free hydroxide taken up by CO₂ as carbonate, %.
+pub const CARBONATED_PERCENT: Limit = Limit {
+    what: "carbonated share of the hydroxide",
+    min: 0.0,
+    min_inclusive: true,
+    max: 100.0,
+    unit: "%",
+    rule: "the carbonated share of the hydroxide is from 0 to 100 %",
+};
+
 /// Every limit, for listing and tests.
-pub const ALL: [Limit; 12] = [
+pub const ALL: [Limit; 17] = [
     AMOUNT,
     BATCH_G,
     TEMPERATURE_C,
@@ -157,6 +207,11 @@ pub const ALL: [Limit; 12] = [
     WEIGHING_TOLERANCE,
     HARDNESS_PPM,
     CALCIUM_SHARE,
+    SAMPLE_G,
+    NORMALITY,
+    END_POINT_PH,
+    IN_USE_SAMPLE_ML,
+    CARBONATED_PERCENT,
 ];
 
 impl Limit {

@@ -33,6 +33,8 @@ pub enum Command {
     Design(crate::design::DesignArgs),
     /// The variants of one or more project files side by side: pH, capacity, cost, cautions.
     Compare(crate::compare::CompareArgs),
+    /// A QC titration of a sample of product predicted: mL of titrant to each end point, the curve, the titration factor.
+    Titrate(crate::titrate::TitrateArgs),
 }
 
 /// The anion of the water's hardness.

@@ -137,6 +137,19 @@ pub fn mass_g(text: &str) -> Result<f64> {
     })
 }
 
+/// A percentage such as `2%` or `2`.
+pub fn percent(text: &str, what: &str) -> Result<f64> {
+    let t = text.trim();
+    let t = t.strip_suffix('%').unwrap_or(t).trim();
+    let v: f64 = t
+        .parse()
+        .map_err(|_| anyhow!("{what} '{text}' is not a percentage (e.g. 2%)"))?;
+    if !v.is_finite() {
+        bail!("{what} '{text}' is not a finite number");
+    }
+    Ok(v)
+}
+
 fn check_amount(id: &str, v: f64) -> Result<()> {
     limits::AMOUNT.check_as(v, &format!("amount of {id}"))?;
     Ok(())

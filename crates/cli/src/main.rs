@@ -1,4 +1,4 @@
-//! `saltwise-cli`: the chemistry core from a terminal — pH, dose curves, doses and the library.
+//! `saltwise-cli`: the chemistry core from a terminal — pH, dose curves, doses, QC titrations and the library.
 //!
 //! Exit codes: 0 success; 1 a problem with the input (message on stderr); 2 bad usage.
 
@@ -8,6 +8,7 @@ mod design;
 mod input;
 mod output;
 mod sweep;
+mod titrate;
 mod tolerance;
 
 use std::process::ExitCode;
@@ -36,5 +37,6 @@ fn run(cli: args::Cli) -> anyhow::Result<ExitCode> {
         args::Command::Tolerance(a) => tolerance::run(&a),
         args::Command::Design(a) => design::run(&a),
         args::Command::Compare(a) => compare::run(&a),
+        args::Command::Titrate(a) => titrate::run(&a),
     }
 }

@@ -34,19 +34,6 @@ pub struct ToleranceArgs {
     pub seed: u64,
 }
 
-/// A percentage such as `2%` or `2`.
-fn percent(text: &str, what: &str) -> Result<f64> {
-    let t = text.trim();
-    let t = t.strip_suffix('%').unwrap_or(t).trim();
-    let v: f64 = t
-        .parse()
-        .map_err(|_| anyhow!("{what} '{text}' is not a percentage (e.g. 2%)"))?;
-    if !v.is_finite() {
-        bail!("{what} '{text}' is not a finite number");
-    }
-    Ok(v)
-}
-
 /// An assay end: `98%` as a percentage or `0.98` as a fraction.
 fn assay_end(text: &str, id: &str) -> Result<f64> {
     let t = text.trim();
@@ -67,14 +54,14 @@ fn assay_end(text: &str, id: &str) -> Result<f64> {
 fn tolerances(args: &ToleranceArgs) -> Result<Tolerances> {
     let mut t = Tolerances::default();
     if let Some(all) = &args.vary_all {
-        t.all_percent = percent(all, "--vary-all")?;
+        t.all_percent = input::percent(all, "--vary-all")?;
     }
     for v in &args.vary {
         let (id, p) = v
             .split_once('=')
             .ok_or_else(|| anyhow!("--vary '{v}' is not ID=P% (e.g. citric_acid=2%)"))?;
         t.per_ingredient
-            .push((id.trim().to_owned(), percent(p, "--vary")?));
+            .push((id.trim().to_owned(), input::percent(p, "--vary")?));
     }
     for a in &args.assay {
         let (id, range) = a.split_once('=').ok_or_else(|| {

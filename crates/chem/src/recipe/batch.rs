@@ -39,6 +39,30 @@ impl Batch {
         self.totals.composition(library).ok_or(RecipeError::NoWater)
     }
 
+    /// A part of the batch weighing `mass_g`, everything in it in proportion (as a sample taken from it).
+    pub fn scaled_to(&self, mass_g: f64) -> Batch {
+        let f = if self.total_mass_g > 0.0 {
+            mass_g / self.total_mass_g
+        } else {
+            0.0
+        };
+        Batch {
+            lines: self
+                .lines
+                .iter()
+                .map(|l| LineMass {
+                    mass_g: l.mass_g * f,
+                    substance_mol: l.substance_mol * f,
+                    water_g: l.water_g * f,
+                    ..l.clone()
+                })
+                .collect(),
+            qs_water_g: self.qs_water_g * f,
+            total_mass_g: mass_g,
+            totals: self.totals.scaled(f),
+        }
+    }
+
     /// Molality (mol/kg water) of the named substance of line `i`.
     pub fn line_molality(&self, i: usize) -> f64 {
         self.lines.get(i).map_or(0.0, |l| {

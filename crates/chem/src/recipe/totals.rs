@@ -42,6 +42,12 @@ impl Totals {
         let water_g = mass_g * (1.0 - e.ingredient.assay)
             + substance_mol * e.water_mol_per_mol * WATER_MOLAR_MASS_G_PER_MOL;
         self.water_kg += water_g * 1e-3;
+        self.add_releases(library, entry, substance_mol);
+    }
+
+    /// Adds what `substance_mol` mol of an ingredient's named substance releases, without any water.
+    pub fn add_releases(&mut self, library: &Library, entry: usize, substance_mol: f64) {
+        let e = &library.entries()[entry];
         for r in &e.releases {
             match *r {
                 ResolvedRelease::Ion { ion, count } => {
@@ -61,6 +67,16 @@ impl Totals {
                     self.proton_excess_mol -= f64::from(form) * count * substance_mol;
                 }
             }
+        }
+    }
+
+    /// Everything multiplied by `factor` (a part of the batch, in proportion).
+    pub fn scaled(&self, factor: f64) -> Self {
+        Self {
+            water_kg: self.water_kg * factor,
+            system_mol: self.system_mol.iter().map(|m| m * factor).collect(),
+            ion_mol: self.ion_mol.iter().map(|m| m * factor).collect(),
+            proton_excess_mol: self.proton_excess_mol * factor,
         }
     }
 

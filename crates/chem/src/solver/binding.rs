@@ -58,16 +58,19 @@ pub struct Binding {
 }
 
 impl Binding {
-    /// The complexes whose metal and ligand the composition holds; under the Pitzer model, the
-    /// pairs its parameters already hold are left out.
+    /// The complexes whose metal and ligand the composition holds. Under the Pitzer model the
+    /// pairs its parameters already hold are left out; in ideal solutions the ion pairs of
+    /// singly charged metals (Na⁺, K⁺), an electrostatic effect such solutions lack by
+    /// definition, are left out too.
     pub fn new(constants: &Constants, composition: &Composition, model: ActivityModel) -> Self {
         let pitzer = model == ActivityModel::Pitzer;
+        let ideal = model == ActivityModel::Ideal;
         let mut b = Binding {
             by_slot: vec![Vec::new(); composition.systems.len()],
             ..Binding::default()
         };
         for (index, c) in constants.complexes.iter().enumerate() {
-            if pitzer && c.in_pitzer {
+            if (pitzer && c.in_pitzer) || (ideal && constants.ion_charges[c.metal] == 1) {
                 continue;
             }
             let Some(ion_slot) = composition
