@@ -329,6 +329,30 @@ fn join_and<S: AsRef<str>>(v: &[S]) -> String {
     }
 }
 
+/// Saturation index above which a scale caution is raised (common practice, no source: an index
+/// within ±0.2 of 0 is within the uncertainty of the constants).
+pub const SCALE_SI: f64 = 0.2;
+
+/// A caution for each solid the solution is supersaturated in.
+pub fn scale_cautions(speciation: &crate::solver::Speciation) -> Vec<Caution> {
+    speciation
+        .saturation
+        .iter()
+        .filter(|x| x.saturation_index > SCALE_SI)
+        .map(|x| Caution {
+            title: format!("Scale: {} can deposit", x.solid.replace('_', " ")),
+            text: format!(
+                "The liquid is supersaturated in {} (saturation index {:+.2}): it can deposit \
+                 as scale or haze, on standing, on heating or on surfaces. Whether and how fast \
+                 it forms depends on nucleation, which the model does not predict; add chelant, \
+                 lower the hardness or the pH, and check on the bench.",
+                x.solid.replace('_', " "),
+                x.saturation_index
+            ),
+        })
+        .collect()
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -484,28 +508,4 @@ mod tests {
         );
         assert!(c.is_empty(), "{c:?}");
     }
-}
-
-/// Saturation index above which a scale caution is raised (common practice, no source: an index
-/// within ±0.2 of 0 is within the uncertainty of the constants).
-pub const SCALE_SI: f64 = 0.2;
-
-/// A caution for each solid the solution is supersaturated in.
-pub fn scale_cautions(speciation: &crate::solver::Speciation) -> Vec<Caution> {
-    speciation
-        .saturation
-        .iter()
-        .filter(|x| x.saturation_index > SCALE_SI)
-        .map(|x| Caution {
-            title: format!("Scale: {} can deposit", x.solid.replace('_', " ")),
-            text: format!(
-                "The liquid is supersaturated in {} (saturation index {:+.2}): it can deposit \
-                 as scale or haze, on standing, on heating or on surfaces. Whether and how fast \
-                 it forms depends on nucleation, which the model does not predict; add chelant, \
-                 lower the hardness or the pH, and check on the bench.",
-                x.solid.replace('_', " "),
-                x.saturation_index
-            ),
-        })
-        .collect()
 }

@@ -234,9 +234,9 @@ impl Binding {
     fn residuals(&self, inputs: &Inputs<'_>, u: &[f64], st: &mut BoundState) {
         let k = self.metals.len();
         let d = k + 1; // derivative index 0 = pH, 1.. = ln m
-        for n in 0..k {
-            st.free[n] = u[n].exp();
-            st.f[n] = st.free[n] - self.metals[n].total;
+        for (((free, f), x), m) in st.free.iter_mut().zip(&mut st.f).zip(u).zip(&self.metals) {
+            *free = x.exp();
+            *f = *free - m.total;
         }
         st.jac.iter_mut().for_each(|x| *x = 0.0);
         for n in 0..k {
@@ -299,13 +299,13 @@ impl Binding {
             }
             let p_l = s * (mean + sum_ja);
             st.protons_removed[slot] = p_l;
-            for v in 0..d {
+            for (v, out) in dps.iter_mut().enumerate() {
                 let own = if v == 0 {
                     LN10 * inputs.variance[slot]
                 } else {
                     0.0
                 };
-                dps[v] = -p_l * st.dln_d[v] + s * (own + st.dsum_ja[v]);
+                *out = -p_l * st.dln_d[v] + s * (own + st.dsum_ja[v]);
             }
         }
         for &c in &self.hydroxo {

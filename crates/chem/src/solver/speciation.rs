@@ -109,12 +109,9 @@ pub fn speciation(
         names[layout.ion(slot)] = library.ions()[ion].id.clone();
     }
     for (slot, &(system, _)) in composition.systems.iter().enumerate() {
-        for p in layout.form_start[slot]..layout.form_start[slot + 1] {
-            names[p] = format!(
-                "{}/{}",
-                library.systems()[system].id,
-                p - layout.form_start[slot]
-            );
+        let forms = layout.form_start[slot]..layout.form_start[slot + 1];
+        for (j, name) in names[forms].iter_mut().enumerate() {
+            *name = format!("{}/{j}", library.systems()[system].id);
         }
     }
     let mut complexes = Vec::new();
