@@ -116,10 +116,11 @@ impl<'a> ChargeBalance<'a> {
         if ionic_strength.to_bits() == self.ionic.to_bits() {
             return;
         }
-        let g = self
-            .layout
-            .by_charge(self.constants, ionic_strength, self.model);
-        self.set_gammas(g);
+        let g = super::species::Gammas::with_model(self.constants, ionic_strength, self.model);
+        for (gamma, &z) in self.gamma.iter_mut().zip(&self.layout.charges) {
+            *gamma = g.of(z);
+        }
+        self.conditional();
         self.ionic = ionic_strength;
     }
 
@@ -127,6 +128,11 @@ impl<'a> ChargeBalance<'a> {
     pub fn set_gammas(&mut self, gamma: Vec<f64>) {
         self.ionic = f64::NAN;
         self.gamma = gamma;
+        self.conditional();
+    }
+
+    /// Conditional acidity and formation constants at the coefficients held.
+    fn conditional(&mut self) {
         self.ka_c.clear();
         for (slot, &(system, _)) in self.composition.systems.iter().enumerate() {
             let start = self.layout.form_start[slot];

@@ -128,7 +128,6 @@ pub(crate) struct ComplexConstant {
 pub(crate) struct SolidConstant {
     /// Index into the library's solids.
     pub index: usize,
-    pub components: Vec<(Species, f64)>,
     pub log_ksp: f64,
 }
 
@@ -187,7 +186,6 @@ impl Constants {
             .enumerate()
             .map(|(index, s)| SolidConstant {
                 index,
-                components: s.components.clone(),
                 log_ksp: -temperature::pka_at(-s.data.log_ksp, s.data.dh_kj_mol, 0.0, temp_k),
             })
             .collect();

@@ -148,7 +148,7 @@ pub fn speciation(
     let mut saturation = Vec::new();
     'solids: for s in &constants.solids {
         let mut log_iap = 0.0;
-        for &(sp, count) in &s.components {
+        for &(sp, count) in &library.solids()[s.index].components {
             let Some(p) = layout.position(constants, composition, sp) else {
                 continue 'solids;
             };
