@@ -110,6 +110,22 @@ impl<'a> ChargeBalance<'a> {
         b
     }
 
+    /// The balance of a solved state, holding its model, coefficients and free metals.
+    pub fn at_solution(
+        constants: &'a Constants,
+        composition: &'a Composition,
+        solution: &Solution,
+    ) -> Self {
+        let mut model = Self::with_model(constants, composition, solution.activity);
+        if solution.gamma.len() == model.gammas().len() {
+            model.set_gammas(solution.gamma.clone());
+        } else {
+            model.set_ionic_strength(solution.ionic_strength);
+        }
+        model.set_free_metals(&solution.free_metals);
+        model
+    }
+
     /// Sets the coefficients from the charges at an ionic strength (Davies or ideal; the start
     /// of a Pitzer iteration).
     pub fn set_ionic_strength(&mut self, ionic_strength: f64) {

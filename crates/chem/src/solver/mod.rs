@@ -351,11 +351,7 @@ pub fn largest_significant_charge(
     composition: &Composition,
     solution: &Solution,
 ) -> i32 {
-    let mut model = balance::ChargeBalance::with_model(constants, composition, solution.activity);
-    if solution.gamma.len() == model.gammas().len() {
-        model.set_gammas(solution.gamma.clone());
-    }
-    model.set_free_metals(&solution.free_metals);
+    let mut model = balance::ChargeBalance::at_solution(constants, composition, solution);
     let m = model.molalities(solution.ph);
     let (layout, _, _) = model.parts();
     let ionic: f64 = layout
@@ -563,13 +559,7 @@ pub fn system_states(
     composition: &Composition,
     solution: &Solution,
 ) -> Vec<SystemState> {
-    let mut model = balance::ChargeBalance::with_model(constants, composition, solution.activity);
-    if solution.gamma.len() == model.gammas().len() {
-        model.set_gammas(solution.gamma.clone());
-    } else {
-        model.set_ionic_strength(solution.ionic_strength);
-    }
-    model.set_free_metals(&solution.free_metals);
+    let mut model = balance::ChargeBalance::at_solution(constants, composition, solution);
     let m = model.molalities(solution.ph);
     let (layout, _, _) = model.parts();
     composition

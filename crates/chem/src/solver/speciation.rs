@@ -92,13 +92,7 @@ pub fn speciation(
     composition: &Composition,
     solution: &Solution,
 ) -> Speciation {
-    let mut model = ChargeBalance::with_model(constants, composition, solution.activity);
-    if solution.gamma.len() == model.gammas().len() {
-        model.set_gammas(solution.gamma.clone());
-    } else {
-        model.set_ionic_strength(solution.ionic_strength);
-    }
-    model.set_free_metals(&solution.free_metals);
+    let mut model = ChargeBalance::at_solution(constants, composition, solution);
     let m = model.molalities(solution.ph);
     let gamma = model.gammas().to_vec();
     let (layout, binding, pitzer) = model.parts();
