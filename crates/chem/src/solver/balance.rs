@@ -9,6 +9,9 @@ use super::pitzer::Model;
 use super::species;
 use super::{ActivityModel, Composition, Constants, Solution, SolveStatus};
 
+/// Most metal Newton steps per evaluation (each evaluation closes the metals).
+const METAL_STEPS: usize = 200;
+
 /// One evaluation of the charge balance at a pH.
 #[derive(Debug, Clone, Copy)]
 pub struct Evaluation {
@@ -169,6 +172,11 @@ impl<'a> ChargeBalance<'a> {
         }
     }
 
+    /// Finds the root of the charge balance from `start` inside the searched pH range.
+    pub fn root(&mut self, start: f64) -> super::newton::Outcome {
+        super::newton::solve_bracketed(|x| self.evaluate(x), start, super::PH_MIN, super::PH_MAX)
+    }
+
     /// The coefficients held.
     pub fn gammas(&self) -> &[f64] {
         &self.gamma
@@ -248,8 +256,10 @@ impl<'a> ChargeBalance<'a> {
             variance: &self.dist.variance,
             totals: &self.totals,
             oh,
+            ph: inv_h.log10(),
         };
-        self.binding.solve(&inputs, &mut self.u, &mut self.state);
+        self.binding
+            .solve(&inputs, &mut self.u, &mut self.state, METAL_STEPS);
     }
 
     /// The residual, its derivative and the ionic strength at a pH.

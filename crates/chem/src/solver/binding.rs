@@ -148,6 +148,9 @@ pub struct BoundState {
     dsum_ja: Vec<f64>,
     dr: Vec<f64>,
     dfdp: Vec<f64>,
+    /// pH of the last solve and d(ln m)/dpH there: the first-order start of the next solve.
+    last_ph: Option<f64>,
+    du_dp: Vec<f64>,
 }
 
 /// Inputs of one bound-state evaluation.
@@ -166,6 +169,8 @@ pub struct Inputs<'a> {
     pub totals: &'a [f64],
     /// Free OH⁻ molality.
     pub oh: f64,
+    /// The pH (for the warm start's first-order step).
+    pub ph: f64,
 }
 
 const LN10: f64 = std::f64::consts::LN_10;
@@ -173,7 +178,14 @@ const LN10: f64 = std::f64::consts::LN_10;
 impl Binding {
     /// Solves the metal balances at fixed free-ligand distributions, from `u` (ln free metal,
     /// updated in place), leaving the bound state and dR/dpH's correction in `state`.
-    pub fn solve(&self, inputs: &Inputs<'_>, u: &mut [f64], state: &mut BoundState) {
+    /// At most `max_steps` Newton steps are taken; `metal_residual` says how closed they are.
+    pub fn solve(
+        &self,
+        inputs: &Inputs<'_>,
+        u: &mut [f64],
+        state: &mut BoundState,
+        max_steps: usize,
+    ) {
         let k = self.metals.len();
         let d = k + 1;
         let resize = |v: &mut Vec<f64>, n: usize| {
@@ -191,6 +203,15 @@ impl Binding {
         resize(&mut state.dsum_ja, d);
         resize(&mut state.dr, d);
         resize(&mut state.dfdp, k);
+        if let Some(last) = state.last_ph
+            && state.du_dp.len() == k
+        {
+            // First-order step along the curve of closed balances from the last solve.
+            let dp = inputs.ph - last;
+            for (x, g) in u.iter_mut().zip(&state.du_dp) {
+                *x += (g * dp).clamp(-2.0, 2.0);
+            }
+        }
         for (n, m) in self.metals.iter().enumerate() {
             let top = m.total.ln();
             if !u[n].is_finite() || u[n] > top {
@@ -198,15 +219,12 @@ impl Binding {
             }
         }
         let mut worst = f64::INFINITY;
-        for _ in 0..200 {
+        let mut converged = false;
+        for _ in 0..max_steps {
             self.residuals(inputs, u, state);
-            worst = self
-                .metals
-                .iter()
-                .zip(&state.f)
-                .map(|(m, r)| (r / m.total).abs())
-                .fold(0.0, f64::max);
+            worst = self.worst(state);
             if worst < 1e-14 {
+                converged = true;
                 break;
             }
             state.step.clear();
@@ -222,12 +240,23 @@ impl Binding {
                 u[n] = (u[n] + scale * state.step[n]).min(m.total.ln());
             }
         }
-        if worst >= 1e-14 {
+        if !converged {
             // The state left is that of the last step; evaluate it so everything matches `u`.
             self.residuals(inputs, u, state);
+            worst = self.worst(state);
         }
         state.metal_residual = worst;
         self.derivatives(state);
+        state.last_ph = Some(inputs.ph);
+    }
+
+    /// Largest metal-balance residual relative to the metal's total, at the last residuals.
+    fn worst(&self, state: &BoundState) -> f64 {
+        self.metals
+            .iter()
+            .zip(&state.f)
+            .map(|(m, r)| (r / m.total).abs())
+            .fold(0.0, f64::max)
     }
 
     /// Metal residuals F, Jacobian ∂F/∂u and the bound state at `u`.
@@ -347,11 +376,17 @@ impl Binding {
         }
         st.work.clear();
         st.work.extend_from_slice(&st.jac);
-        let correction = if k > 0 && solve_linear(&mut st.work, &mut st.dfdp, k) {
+        let solved = k > 0 && solve_linear(&mut st.work, &mut st.dfdp, k);
+        let correction = if solved {
             -(0..k).map(|n| st.dr[1 + n] * st.dfdp[n]).sum::<f64>()
         } else {
             0.0
         };
+        // J·du/dp = −∂F/∂p.
+        st.du_dp.clear();
+        if solved {
+            st.du_dp.extend(st.dfdp.iter().map(|x| -x));
+        }
         st.partial_p = st.dr[0];
         st.derivative_correction = correction;
     }

@@ -427,7 +427,7 @@ fn solve_by_charge(
     while outer < MAX_OUTER {
         outer += 1;
         model.set_ionic_strength(ionic);
-        let inner = newton::solve_bracketed(|x| model.evaluate(x), ph, PH_MIN, PH_MAX);
+        let inner = model.root(ph);
         iterations += inner.iterations;
         ph = inner.x;
         evaluated = inner.at_x;
@@ -487,7 +487,7 @@ fn solve_pitzer(
     let mut last_change = f64::INFINITY;
     while outer < MAX_OUTER {
         outer += 1;
-        let inner = newton::solve_bracketed(|x| model.evaluate(x), ph, PH_MIN, PH_MAX);
+        let inner = model.root(ph);
         iterations += inner.iterations;
         ph = inner.x;
         evaluated = inner.at_x;
@@ -533,12 +533,7 @@ pub fn solve_at_ionic_strength(
 ) -> Solution {
     let mut model = balance::ChargeBalance::new(constants, composition);
     model.set_ionic_strength(ionic_strength.max(0.0));
-    let inner = newton::solve_bracketed(
-        |x| model.evaluate(x),
-        guess_ph.unwrap_or(7.0),
-        PH_MIN,
-        PH_MAX,
-    );
+    let inner = model.root(guess_ph.unwrap_or(7.0));
     let status = status_of(inner.status);
     model.finish(inner.x, inner.at_x, inner.iterations, 1, status)
 }
