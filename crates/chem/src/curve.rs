@@ -203,6 +203,7 @@ impl<'a> Doser<'a> {
         let mut out = Vec::with_capacity(n);
         // Each solve starts from the extrapolation of the (up to) three before it.
         let mut last: Vec<(f64, f64)> = Vec::with_capacity(3);
+        let mut previous: Option<Solution> = None;
         for i in 0..n {
             let dose_g = from_g + (to_g - from_g) * i as f64 / (n - 1) as f64;
             let guess = match last.as_slice() {
@@ -220,7 +221,16 @@ impl<'a> Doser<'a> {
                 }),
                 _ => None,
             };
-            let s = self.solve(dose_g, guess);
+            let s = match &previous {
+                Some(p) => solver::solve_near(
+                    self.constants,
+                    &self.composition(dose_g),
+                    guess,
+                    self.activity,
+                    p,
+                ),
+                None => self.solve(dose_g, guess),
+            };
             if last.len() == 3 {
                 last.pop();
             }
@@ -230,6 +240,7 @@ impl<'a> Doser<'a> {
                 ph: s.ph,
                 buffer_capacity: s.buffer_capacity,
             });
+            previous = Some(s);
         }
         let equivalence = equivalence_points(&out);
         DoseCurve {

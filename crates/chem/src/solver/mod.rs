@@ -324,7 +324,7 @@ pub struct Guess {
 /// continuous.
 pub fn solve(constants: &Constants, composition: &Composition, guess: Option<Guess>) -> Solution {
     let requested = constants.conditions.activity;
-    let first = solve_with(constants, composition, guess, requested.fixed());
+    let first = solve_with(constants, composition, guess, requested.fixed(), &[]);
     if requested != ActivityModel::Auto || davies_holds(constants, composition, &first) {
         return first;
     }
@@ -332,7 +332,13 @@ pub fn solve(constants: &Constants, composition: &Composition, guess: Option<Gue
         ph: first.ph,
         ionic_strength: first.ionic_strength,
     };
-    solve_with(constants, composition, Some(from), ActivityModel::Pitzer)
+    solve_with(
+        constants,
+        composition,
+        Some(from),
+        ActivityModel::Pitzer,
+        &[],
+    )
 }
 
 /// Whether Davies holds at a solved state: its ionic strength within the limit for the
@@ -381,7 +387,23 @@ pub fn solve_as(
     if activity == ActivityModel::Auto {
         solve(constants, composition, guess)
     } else {
-        solve_with(constants, composition, guess, activity)
+        solve_with(constants, composition, guess, activity, &[])
+    }
+}
+
+/// [`solve_as`] with the free metals started from a neighbouring solved state (the previous
+/// point of a curve), which saves most of the metal iterations.
+pub fn solve_near(
+    constants: &Constants,
+    composition: &Composition,
+    guess: Option<Guess>,
+    activity: ActivityModel,
+    near: &Solution,
+) -> Solution {
+    if activity == ActivityModel::Auto {
+        solve(constants, composition, guess)
+    } else {
+        solve_with(constants, composition, guess, activity, &near.free_metals)
     }
 }
 
@@ -391,8 +413,10 @@ fn solve_with(
     composition: &Composition,
     guess: Option<Guess>,
     activity: ActivityModel,
+    free_metals: &[f64],
 ) -> Solution {
     let mut model = balance::ChargeBalance::with_model(constants, composition, activity);
+    model.set_free_metals(free_metals);
     let start_ionic = guess
         .map_or(0.5 * composition.spectator_z2, |g| g.ionic_strength)
         .max(0.0);
