@@ -3,7 +3,7 @@
 
 use saltwise_chem::curve::Doser;
 use saltwise_chem::solver::{self, speciation};
-use saltwise_chem::{ActivityModel, Conditions, Constants, Library, Recipe, RecipeLine, evaluate};
+use saltwise_chem::{ActivityModel, Conditions, Constants, Library, Recipe, evaluate};
 
 fn lib() -> Library {
     Library::built_in().expect("built-in library")
@@ -17,14 +17,7 @@ fn davies() -> Conditions {
 }
 
 fn recipe(lines: &[(&str, f64)]) -> Recipe {
-    Recipe {
-        lines: lines
-            .iter()
-            .map(|&(id, g)| RecipeLine::grams(id, g))
-            .collect(),
-        qs_to_g: None,
-        water_hardness: None,
-    }
+    Recipe::in_grams(lines)
 }
 
 /// log10 αY⁴⁻ of EDTA at 25 °C, I = 0.1 (Harris, Quantitative Chemical Analysis, EDTA chapter
