@@ -287,6 +287,7 @@ impl Workbench {
                     ui::cautions::cautions_ui(ui, &self.engine);
                     ui::sweeps::sweeps_ui(ui, &self.engine, project.settings.temp_c);
                     ui::hardness::hardness_ui(ui, project, &self.engine, &mut self.panels.refused);
+                    ui::qc::qc_ui(ui, &mut project.settings.qc, &self.engine, &mut self.panels);
                     ui::tolerance::tolerance_ui(ui, project, &self.engine, &mut self.panels);
                     ui::design::design_ui(
                         ui,

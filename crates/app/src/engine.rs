@@ -5,6 +5,7 @@
 //! from. When a stage is made again, everything that depends on it is dropped and made again
 //! from it.
 
+use std::cell::Cell;
 use std::collections::BTreeMap;
 
 use egui_plot::PlotPoint;
@@ -20,6 +21,7 @@ use saltwise_chem::design::{self, Design};
 use saltwise_chem::drift::{self, Drift};
 use saltwise_chem::explain::{self, IngredientEffect};
 use saltwise_chem::hazard::{self, Caution};
+use saltwise_chem::qc::{self, Prediction, TitrantKind};
 use saltwise_chem::sweep;
 use saltwise_chem::variant::{self, Summary, Variant};
 
@@ -27,6 +29,8 @@ use crate::band_job::{self, BandJob, BandKey, BandState};
 
 /// Points on the dose curve.
 const CURVE_POINTS: usize = 161;
+/// Points on the predicted QC titration curve.
+const QC_POINTS: usize = 81;
 /// pH step of the species chart.
 const SPECIES_PH_STEP: f64 = 0.05;
 
@@ -102,6 +106,19 @@ pub struct VariantRow {
     pub curve: Result<Vec<PlotPoint>, String>,
 }
 
+/// The QC titration of the project's method, predicted for the current recipe.
+#[derive(Debug, Clone, PartialEq)]
+pub struct QcData {
+    /// Library id of the titrant (the method's, or the automatic choice).
+    pub titrant: String,
+    /// Whether the titrant is an acid or a base.
+    pub kind: TitrantKind,
+    /// Its normality, mol/L.
+    pub normality: f64,
+    /// End points, curve and titration factor.
+    pub prediction: Prediction,
+}
+
 /// The solved recipe and what follows directly from it.
 #[derive(Debug, Clone, PartialEq)]
 struct Solved {
@@ -155,6 +172,10 @@ pub struct Engine {
     band: Option<BandJob>,
     /// Each variant with the curve settings its row was made for; emptied with the constants.
     variants: Vec<(Variant, CurveKey, VariantRow)>,
+    /// The QC titration, made only while a panel asks for it.
+    qc: Option<(qc::Method, Result<QcData, String>)>,
+    /// Whether a panel asked for the QC titration since the last refresh.
+    qc_wanted: Cell<bool>,
     solves: u64,
 }
 
@@ -177,6 +198,8 @@ impl Engine {
             species: None,
             band: None,
             variants: Vec::new(),
+            qc: None,
+            qc_wanted: Cell::new(false),
             solves: 0,
         }
     }
@@ -232,6 +255,13 @@ impl Engine {
     /// The species chart data of the chosen system.
     pub fn species(&self) -> Option<&SpeciesData> {
         self.species.as_ref().and_then(|(_, s)| s.as_ref())
+    }
+
+    /// The QC titration of the project's method, or why there is none; `None` until the next
+    /// refresh has made it (asking is what makes the refreshes keep it up to date).
+    pub fn qc(&self) -> Option<&Result<QcData, String>> {
+        self.qc_wanted.set(true);
+        self.qc.as_ref().map(|(_, q)| q)
     }
 
     /// The pH band under the project's tolerances: `None` when none are set.
@@ -291,6 +321,11 @@ impl Engine {
                 .is_some_and(|(k, _)| *k == species_key(s))
             && self.band_current(project)
             && self.variants_current(project)
+            && (!self.qc_wanted.get()
+                || self
+                    .qc
+                    .as_ref()
+                    .is_some_and(|(k, _)| *k == project.settings.qc))
     }
 
     /// Whether the band (or its absence) is for the recipe and tolerances as they are now.
@@ -383,6 +418,7 @@ impl Engine {
             self.cautions = None;
             self.curve = None;
             self.species = None;
+            self.qc = None;
         }
         let report = self.solved.as_ref().map(|(_, s)| &s.result);
         let constants = constants.as_ref().ok();
@@ -430,6 +466,15 @@ impl Engine {
             if let (Some(job), Some(constants)) = (&mut self.band, constants) {
                 job.advance(library, constants);
             }
+        }
+        if self.qc_wanted.replace(false) && self.qc.as_ref().is_none_or(|(k, _)| *k != s.qc) {
+            self.solves += 1;
+            let data = match (report, constants) {
+                (Some(Ok(report)), Some(constants)) => qc_data(library, constants, report, &s.qc),
+                (Some(Err(e)), _) => Err(e.clone()),
+                _ => Err("the recipe has not been solved".into()),
+            };
+            self.qc = Some((s.qc.clone(), data));
         }
         self.refresh_variants(project);
         self.solves != before
@@ -494,6 +539,7 @@ impl Engine {
         self.cautions = Some((s.adjuster.clone(), Vec::new()));
         self.curve = Some((CurveKey::of(s), Err(why.clone())));
         self.species = Some((species_key(s), None));
+        self.qc = Some((s.qc.clone(), Err(why.clone())));
         self.band = band_job::any_set(&s.tolerances)
             .then(|| BandJob::failed(BandKey::of(project.recipe(), s), &why));
         self.variants = project
@@ -700,6 +746,29 @@ fn curve_data(
 }
 
 /// The system shown: the chosen one if present in the recipe, else the first present.
+fn qc_data(
+    library: &Library,
+    constants: &Constants,
+    report: &Report,
+    method: &qc::Method,
+) -> Result<QcData, String> {
+    let (titrant, prediction) = method
+        .predict(
+            library,
+            constants,
+            &report.batch,
+            report.solution.ph,
+            QC_POINTS,
+        )
+        .map_err(|e| e.to_string())?;
+    Ok(QcData {
+        titrant: titrant.id().to_owned(),
+        kind: titrant.kind(),
+        normality: titrant.normality(),
+        prediction,
+    })
+}
+
 fn species_data(
     library: &Library,
     constants: &Constants,

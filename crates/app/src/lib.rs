@@ -29,7 +29,7 @@ pub use band_job::BandState;
 pub use command::{Command, RecipeEdit, Resolution, VariantEdit};
 pub use config::{CONFIG_DIR_ENV, ConfigStore, UserConfig};
 pub use document::Document;
-pub use engine::{CurveData, CurvePoint, Engine, SpeciesData};
+pub use engine::{CurveData, CurvePoint, Engine, QcData, SpeciesData};
 pub use messages::{Messages, Notice, Pending, Prompt, Status};
 pub use recovery::{DATA_DIR_ENV, LeftBehind, RecoveryStore};
 

@@ -56,6 +56,8 @@ pub struct Settings {
     /// The active form chosen per system id (protons removed from the fully protonated form);
     /// systems not listed use their uncharged form, else the fully protonated one.
     pub active_forms: BTreeMap<String, usize>,
+    /// The QC titration method predicted for the product.
+    pub qc: crate::qc::Method,
 }
 
 /// Samples of the pH band unless the project says otherwise.
@@ -75,6 +77,7 @@ impl Default for Settings {
             band_samples: DEFAULT_BAND_SAMPLES,
             band_seed: 1,
             active_forms: BTreeMap::new(),
+            qc: crate::qc::Method::default(),
         }
     }
 }
@@ -412,6 +415,8 @@ impl Project {
                 )));
             }
         }
+        s.qc.check()
+            .map_err(|e| invalid(format!("QC method: {e}")))?;
         if s.band_samples == 0 || s.band_samples > MAX_SAMPLES {
             return Err(invalid(format!(
                 "band_samples {} is not allowed: give 1 to {MAX_SAMPLES}",

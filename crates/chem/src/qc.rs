@@ -227,13 +227,23 @@ fn strength(library: &Library, entry: usize) -> Option<(TitrantKind, f64)> {
 
 /// The strong acids and bases of the library, as `id (formula)`, in library order.
 pub fn strong_titrants(library: &Library) -> Vec<String> {
-    (0..library.entries().len())
-        .filter(|&i| strength(library, i).is_some())
+    titrant_entries(library)
         .map(|i| {
             let ing = &library.entries()[i].ingredient;
             format!("{} ({})", ing.id, ing.formula)
         })
         .collect()
+}
+
+/// The library ids of the strong acids and bases, in library order.
+pub fn strong_titrant_ids(library: &Library) -> Vec<&str> {
+    titrant_entries(library)
+        .map(|i| library.entries()[i].ingredient.id.as_str())
+        .collect()
+}
+
+fn titrant_entries(library: &Library) -> impl Iterator<Item = usize> + '_ {
+    (0..library.entries().len()).filter(|&i| strength(library, i).is_some())
 }
 
 impl Titrant {
@@ -643,4 +653,101 @@ pub fn predict(
         factor,
         warnings: t.warnings(),
     })
+}
+
+/// Titrant used by a method that names none, for an alkaline product (pH 7 or above).
+pub const AUTO_ACID_TITRANT: &str = "hydrochloric_acid_36";
+/// Titrant used by a method that names none, for an acidic product (below pH 7).
+pub const AUTO_BASE_TITRANT: &str = "sodium_hydroxide";
+/// Sample of product a new QC method titrates, g.
+pub const DEFAULT_SAMPLE_G: f64 = 10.0;
+/// Normality of a new QC method's titrant, mol/L.
+pub const DEFAULT_NORMALITY: f64 = 0.1;
+
+/// A QC titration method saved with a project: sample, titrant and end points.
+#[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
+#[serde(default)]
+pub struct Method {
+    /// Sample of product, g.
+    pub sample_g: f64,
+    /// Titrant library id; none chooses HCl for a product at pH 7 or above, NaOH below.
+    pub titrant: Option<String>,
+    /// Normality of the titrant, mol/L.
+    pub normality: f64,
+    /// End points, pH, in order; empty means the titrant's defaults.
+    pub end_points_ph: Vec<f64>,
+    /// In-use sample for the titration factor, mL, if one is wanted.
+    pub in_use_sample_ml: Option<f64>,
+    /// Carbonated share of the product's free hydroxide, %, if the scenario is wanted.
+    pub carbonated_percent: Option<f64>,
+}
+
+impl Default for Method {
+    fn default() -> Self {
+        Self {
+            sample_g: DEFAULT_SAMPLE_G,
+            titrant: None,
+            normality: DEFAULT_NORMALITY,
+            end_points_ph: Vec::new(),
+            in_use_sample_ml: None,
+            carbonated_percent: None,
+        }
+    }
+}
+
+impl Method {
+    /// Checks every number of the method against its limits.
+    pub fn check(&self) -> Result<(), LimitError> {
+        limits::SAMPLE_G.check(self.sample_g)?;
+        limits::NORMALITY.check(self.normality)?;
+        for &e in &self.end_points_ph {
+            limits::END_POINT_PH.check(e)?;
+        }
+        if let Some(v) = self.in_use_sample_ml {
+            limits::IN_USE_SAMPLE_ML.check(v)?;
+        }
+        if let Some(p) = self.carbonated_percent {
+            limits::CARBONATED_PERCENT.check(p)?;
+        }
+        Ok(())
+    }
+
+    /// The titrant's id: the method's own, or the automatic choice for a product at `product_ph`.
+    pub fn titrant_id(&self, product_ph: f64) -> &str {
+        match &self.titrant {
+            Some(id) => id,
+            None if product_ph >= 7.0 => AUTO_ACID_TITRANT,
+            None => AUTO_BASE_TITRANT,
+        }
+    }
+
+    /// The titrant for a product at `product_ph`.
+    pub fn titrant(&self, library: &Library, product_ph: f64) -> Result<Titrant, QcError> {
+        Titrant::find(library, self.titrant_id(product_ph), self.normality)
+    }
+
+    /// The request of this method with a curve of `points` points.
+    pub fn request(&self, points: usize) -> Request {
+        Request {
+            sample_g: self.sample_g,
+            end_points_ph: self.end_points_ph.clone(),
+            points,
+            in_use_sample_ml: self.in_use_sample_ml,
+            carbonated_percent: self.carbonated_percent,
+        }
+    }
+
+    /// Predicts this method's titration of a product solved at `product_ph`.
+    pub fn predict(
+        &self,
+        library: &Library,
+        constants: &Constants,
+        product: &Batch,
+        product_ph: f64,
+        points: usize,
+    ) -> Result<(Titrant, Prediction), QcError> {
+        let titrant = self.titrant(library, product_ph)?;
+        let prediction = predict(library, constants, product, &titrant, &self.request(points))?;
+        Ok((titrant, prediction))
+    }
 }

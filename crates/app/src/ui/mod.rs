@@ -5,6 +5,7 @@ pub mod custom_ingredient;
 pub mod design;
 pub mod dose_curve;
 pub mod hardness;
+pub mod qc;
 pub mod readout;
 pub mod recipe_table;
 pub mod species_chart;
@@ -37,6 +38,8 @@ pub struct PanelState {
     pub price_text: BTreeMap<String, String>,
     /// The buffer design form.
     pub design: design::DesignForm,
+    /// The QC end points as typed (pH values separated by commas).
+    pub qc_end_points: Option<String>,
 }
 
 // One colour, one meaning. The colours are from the Okabe–Ito set, chosen to stay apart for
