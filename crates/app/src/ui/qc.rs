@@ -115,13 +115,8 @@ fn method_ui(ui: &mut Ui, method: &mut Method, library: &Library, panels: &mut P
 }
 
 fn titrant_picker(ui: &mut Ui, method: &mut Method, library: &Library) {
-    let name = |id: &str| {
-        library
-            .entry(id)
-            .map_or_else(|| id.to_owned(), |e| e.ingredient.name.clone())
-    };
-    const AUTO: &str =
-        "Automatic: hydrochloric acid for an alkaline product, sodium hydroxide for an acidic one";
+    let name = |id: &str| titrant_words(library, id);
+    const AUTO: &str = "Automatic: HCl for an alkaline product, NaOH for an acidic one";
     let selected = method
         .titrant
         .as_deref()
@@ -139,6 +134,14 @@ fn titrant_picker(ui: &mut Ui, method: &mut Method, library: &Library) {
     super::name_widget(response, Role::ComboBox, "QC titrant").on_hover_text(
         "A strong acid or base of the library; its grade does not matter, the normality sets its strength",
     );
+}
+
+/// A titrant by its formula, with the library entry it is taken from.
+fn titrant_words(library: &Library, id: &str) -> String {
+    library.entry(id).map_or_else(
+        || id.to_owned(),
+        |e| format!("{} (as {})", e.ingredient.formula, e.ingredient.name),
+    )
 }
 
 /// The end points as text: pH values separated by commas or spaces; empty for the defaults.
@@ -245,7 +248,7 @@ fn results_ui(ui: &mut Ui, data: &QcData, library: &Library) {
     let p = &data.prediction;
     let titrant = library
         .entry(&data.titrant)
-        .map_or_else(|| data.titrant.clone(), |e| e.ingredient.name.clone());
+        .map_or_else(|| data.titrant.clone(), |e| e.ingredient.formula.clone());
     ui.label(format!(
         "Titrated with {} N {titrant} ({}); sample at pH {:.2} before any titrant.",
         sig(data.normality, 3),
