@@ -19,6 +19,7 @@ pub mod formula;
 pub mod hazard;
 pub mod library;
 pub mod limits;
+pub mod precipitation;
 pub mod project;
 pub mod qc;
 pub mod recipe;

@@ -372,6 +372,7 @@ fn carbonate_solid(components: Vec<(String, u32)>) -> Solid {
     Solid {
         id: "test_calcite".into(),
         name: "test calcite".into(),
+        formula: "CaCO3".into(),
         components,
         log_ksp: -8.48,
         dh_kj_mol: 0.0,

@@ -252,6 +252,9 @@ pub struct Solid {
     pub id: String,
     /// Display name, e.g. `calcite (CaCO₃)`.
     pub name: String,
+    /// Formula for its molar mass, e.g. `CaCO3` or `CaSO4·2H2O` (empty when not given).
+    #[serde(default)]
+    pub formula: String,
     /// The ions one formula unit dissolves into, each with its count.
     pub components: Vec<(String, u32)>,
     /// log10 Ksp at 25 °C, I = 0 (activity product at saturation).

@@ -230,6 +230,12 @@ impl Library {
         if s.source.trim().is_empty() {
             return Err(bad("every solid needs the source of its constant"));
         }
+        if !s.formula.is_empty() && crate::formula::Formula::parse(&s.formula).is_err() {
+            return Err(bad(&format!(
+                "its formula '{}' cannot be read (write it like CaCO3 or CaSO4·2H2O)",
+                s.formula
+            )));
+        }
         Ok(ResolvedSolid {
             data: s,
             components,

@@ -139,6 +139,37 @@ pub fn speciation(
             fallback: pitzer.is_some_and(|model| layout::is_fallback(model, p)),
         });
     }
+    let saturation = indices(library, constants, composition, layout, &m, &gamma);
+    let osmotic = pitzer.map(|model| model.evaluate(layout::a_phi(constants), &m).osmotic);
+    Speciation {
+        ions,
+        complexes,
+        saturation,
+        osmotic,
+    }
+}
+
+/// The saturation index of every solid whose components are all present, at a solved state.
+pub fn saturation(
+    library: &Library,
+    constants: &Constants,
+    composition: &Composition,
+    solution: &Solution,
+) -> Vec<Saturation> {
+    let mut model = ChargeBalance::at_solution(constants, composition, solution);
+    let m = model.molalities(solution.ph);
+    let (layout, _, _) = model.parts();
+    indices(library, constants, composition, layout, &m, model.gammas())
+}
+
+fn indices(
+    library: &Library,
+    constants: &Constants,
+    composition: &Composition,
+    layout: &layout::Layout,
+    m: &[f64],
+    gamma: &[f64],
+) -> Vec<Saturation> {
     let mut saturation = Vec::new();
     'solids: for s in &constants.solids {
         let mut log_iap = 0.0;
@@ -156,11 +187,5 @@ pub fn speciation(
             saturation_index: log_iap - s.log_ksp,
         });
     }
-    let osmotic = pitzer.map(|model| model.evaluate(layout::a_phi(constants), &m).osmotic);
-    Speciation {
-        ions,
-        complexes,
-        saturation,
-        osmotic,
-    }
+    saturation
 }
