@@ -21,6 +21,7 @@ use saltwise_chem::design::{self, Design};
 use saltwise_chem::drift::{self, Drift};
 use saltwise_chem::explain::{self, IngredientEffect};
 use saltwise_chem::hazard::{self, Caution};
+use saltwise_chem::precipitation::{self, Precipitation};
 use saltwise_chem::qc::{self, Prediction, TitrantKind};
 use saltwise_chem::sweep;
 use saltwise_chem::variant::{self, Summary, Variant};
@@ -172,6 +173,8 @@ pub struct Engine {
     band: Option<BandJob>,
     /// Each variant with the curve settings its row was made for; emptied with the constants.
     variants: Vec<(Variant, CurveKey, VariantRow)>,
+    /// The state with supersaturated solids settled out, when the project asks for it.
+    settled: Option<(bool, Option<Precipitation>)>,
     /// The QC titration, made only while a panel asks for it.
     qc: Option<(qc::Method, Result<QcData, String>)>,
     /// Whether a panel asked for the QC titration since the last refresh.
@@ -198,6 +201,7 @@ impl Engine {
             species: None,
             band: None,
             variants: Vec::new(),
+            settled: None,
             qc: None,
             qc_wanted: Cell::new(false),
             solves: 0,
@@ -255,6 +259,11 @@ impl Engine {
     /// The species chart data of the chosen system.
     pub fn species(&self) -> Option<&SpeciesData> {
         self.species.as_ref().and_then(|(_, s)| s.as_ref())
+    }
+
+    /// The recipe with supersaturated solids settled out, when the project asks for it.
+    pub fn settled(&self) -> Option<&Precipitation> {
+        self.settled.as_ref().and_then(|(_, p)| p.as_ref())
     }
 
     /// The QC titration of the project's method, or why there is none; `None` until the next
@@ -321,6 +330,10 @@ impl Engine {
                 .is_some_and(|(k, _)| *k == species_key(s))
             && self.band_current(project)
             && self.variants_current(project)
+            && self
+                .settled
+                .as_ref()
+                .is_some_and(|(k, _)| *k == s.precipitate)
             && (!self.qc_wanted.get()
                 || self
                     .qc
@@ -418,6 +431,7 @@ impl Engine {
             self.cautions = None;
             self.curve = None;
             self.species = None;
+            self.settled = None;
             self.qc = None;
         }
         let report = self.solved.as_ref().map(|(_, s)| &s.result);
@@ -466,6 +480,25 @@ impl Engine {
             if let (Some(job), Some(constants)) = (&mut self.band, constants) {
                 job.advance(library, constants);
             }
+        }
+        if self
+            .settled
+            .as_ref()
+            .is_none_or(|(k, _)| *k != s.precipitate)
+        {
+            let settled = match (report, constants) {
+                (Some(Ok(r)), Some(constants)) if s.precipitate => {
+                    self.solves += 1;
+                    Some(precipitation::precipitate(
+                        library,
+                        constants,
+                        &r.composition,
+                        &r.solution,
+                    ))
+                }
+                _ => None,
+            };
+            self.settled = Some((s.precipitate, settled));
         }
         if self.qc_wanted.replace(false) && self.qc.as_ref().is_none_or(|(k, _)| *k != s.qc) {
             self.solves += 1;
@@ -539,6 +572,7 @@ impl Engine {
         self.cautions = Some((s.adjuster.clone(), Vec::new()));
         self.curve = Some((CurveKey::of(s), Err(why.clone())));
         self.species = Some((species_key(s), None));
+        self.settled = Some((s.precipitate, None));
         self.qc = Some((s.qc.clone(), Err(why.clone())));
         self.band = band_job::any_set(&s.tolerances)
             .then(|| BandJob::failed(BandKey::of(project.recipe(), s), &why));

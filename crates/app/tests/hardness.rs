@@ -95,3 +95,40 @@ fn the_ion_list_names_the_model_and_the_estimated_coefficients() {
             .contains(&"carbonic/2".to_owned())
     );
 }
+
+#[test]
+fn settling_lists_the_calcite_formed_and_the_ph_left() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness_in(carbonate_cleaner(), &Folders::under(dir.path()));
+    h.get_by_label("Hard water, ions and scale").click();
+    h.run();
+    h.get_by_label("Made with hard water").click();
+    h.run();
+    type_into(&mut h, "Water hardness", "300");
+    assert!(h.query_by_label_contains("Settles out").is_none());
+    h.get_by_label("Let supersaturated solids settle out").click();
+    h.run();
+    assert!(h.state().project().settings.precipitate);
+    let p = h.state().engine().settled().expect("settled").clone();
+    let calcite = p
+        .formed
+        .iter()
+        .find(|f| f.solid == "calcite")
+        .expect("calcite forms");
+    // 300 ppm as CaCO₃, 70 % of it calcium, is 2.1 mmol Ca²⁺ per kg water; with 94 mmol/kg of
+    // carbonate nearly all of it settles (calcite Ksp 10^−8.48, Plummer & Busenberg 1982, from
+    // memory): between 90 % and 100 % of 2.1 mmol/kg (stoichiometry).
+    let mmol = calcite.mol_per_kg_water * 1e3;
+    assert!(mmol > 0.9 * 2.1 && mmol <= 2.1, "{mmol}");
+    // The readout and the section both say so, in grams per kg of product.
+    assert!(h.query_all_by_label_contains("Settles out: calcite").count() >= 2);
+    assert!(h.query_by_label_contains("g per kg of product").is_some());
+    // Saved with the project.
+    let ron = h.state().project().to_ron().unwrap();
+    assert!(
+        saltwise_chem::project::Project::from_ron(&ron, "test")
+            .unwrap()
+            .settings
+            .precipitate
+    );
+}

@@ -58,6 +58,8 @@ pub struct Settings {
     pub active_forms: BTreeMap<String, usize>,
     /// The QC titration method predicted for the product.
     pub qc: crate::qc::Method,
+    /// Whether supersaturated solids settle out in the readout (curves do not precipitate).
+    pub precipitate: bool,
 }
 
 /// Samples of the pH band unless the project says otherwise.
@@ -78,6 +80,7 @@ impl Default for Settings {
             band_seed: 1,
             active_forms: BTreeMap::new(),
             qc: crate::qc::Method::default(),
+            precipitate: false,
         }
     }
 }

@@ -156,7 +156,11 @@ fn every_built_in_solid_has_a_formula_whose_molar_mass_is_read() {
             .count();
     }
     // Calcite 100.09 g/mol (IUPAC atomic weights: Ca 40.078, C 12.011, O 15.999).
-    let calcite = lib.solids().iter().find(|s| s.data.id == "calcite").unwrap();
+    let calcite = lib
+        .solids()
+        .iter()
+        .find(|s| s.data.id == "calcite")
+        .unwrap();
     let m = saltwise_chem::formula::Formula::parse(&calcite.data.formula)
         .unwrap()
         .molar_mass_g_per_mol();

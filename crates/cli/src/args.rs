@@ -16,7 +16,7 @@ pub struct Cli {
 pub enum Command {
     /// The solved state of a recipe (help text below; brackets in a doc comment read as a link).
     #[command(about = "pH, p[H], ionic strength, buffer capacity and species of a recipe.")]
-    Ph(RecipeArgs),
+    Ph(PhArgs),
     /// pH against the dose of an ingredient added to the recipe.
     Curve(CurveArgs),
     /// How much of an adjuster brings the recipe to a target pH.
@@ -90,6 +90,15 @@ pub struct RecipeArgs {
     /// Print JSON instead of text.
     #[arg(long)]
     pub json: bool,
+}
+
+#[derive(Debug, Args)]
+pub struct PhArgs {
+    #[command(flatten)]
+    pub recipe: RecipeArgs,
+    /// Let supersaturated solids settle out: report the solids formed and the state left; default off, or the project's.
+    #[arg(long)]
+    pub precipitate: bool,
 }
 
 #[derive(Debug, Args)]

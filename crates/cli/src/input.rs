@@ -18,6 +18,8 @@ pub struct Resolved {
     pub adjuster: Option<String>,
     /// The project's chosen active form per system id, when read from a project file.
     pub active_forms: std::collections::BTreeMap<String, usize>,
+    /// Whether the project lets supersaturated solids settle out.
+    pub precipitate: bool,
 }
 
 /// Builds the library, recipe and conditions from the arguments (and project file, if any).
@@ -27,6 +29,7 @@ pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
     let mut recipe = Recipe::default();
     let mut adjuster = None;
     let mut active_forms = std::collections::BTreeMap::new();
+    let mut precipitate = false;
     if let Some(path) = &args.project {
         // The same checked loader as the window: limits, custom ingredients, unknown ids with
         // their line and column.
@@ -34,6 +37,7 @@ pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
         library = with_custom;
         adjuster = Some(project.settings.adjuster.clone());
         active_forms = project.settings.active_forms.clone();
+        precipitate = project.settings.precipitate;
         conditions = Conditions {
             temp_c: project.settings.temp_c,
             activity: project.settings.activity,
@@ -110,6 +114,7 @@ pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
         conditions,
         adjuster,
         active_forms,
+        precipitate,
     })
 }
 

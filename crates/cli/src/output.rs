@@ -9,13 +9,14 @@ use saltwise_chem::drift;
 use saltwise_chem::explain::explain;
 use saltwise_chem::hazard::{self, Cautions};
 use saltwise_chem::library::{Release, form_names};
+use saltwise_chem::precipitation;
 use saltwise_chem::report::{Report, evaluate_with};
 use saltwise_chem::reserve::{self, Reserve};
 use saltwise_chem::text::{Notation, ascii};
 use saltwise_chem::{Constants, Library};
 use serde_json::{Value, json};
 
-use crate::args::{CurveArgs, DoseArgs, LibraryArgs, RecipeArgs, WaterArgs};
+use crate::args::{CurveArgs, DoseArgs, LibraryArgs, PhArgs, RecipeArgs, WaterArgs};
 use crate::input::{self, Resolved};
 
 fn solve(args: &RecipeArgs) -> Result<(Resolved, Constants, Report)> {
@@ -82,10 +83,16 @@ fn cautions_text(c: &Cautions) -> String {
 }
 
 /// `saltwise-cli ph`.
-pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
+pub fn ph(ph_args: &PhArgs) -> Result<ExitCode> {
+    let args = &ph_args.recipe;
     let (r, constants, report) = solve(args)?;
     let lib = &r.library;
     let s = &report.solution;
+    let settled = (ph_args.precipitate || r.precipitate).then(|| {
+        precipitation::precipitate(lib, &constants, &report.composition, &report.solution)
+    });
+    // Grams per kg of product from mol per kg of water.
+    let water_per_product = report.batch.totals.water_kg / (report.batch.total_mass_g * 1e-3);
     let effects = explain(lib, &constants, &report.batch);
     let warn = hazard::assemble(
         lib,
@@ -148,6 +155,20 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
                 "solid": x.solid,
                 "saturation_index": x.saturation_index,
             })).collect::<Vec<_>>(),
+            "precipitation": settled.as_ref().map(|p| json!({
+                "ph": p.solution.ph,
+                "ionic_strength": p.solution.ionic_strength,
+                "converged": p.converged,
+                "formed": p.formed.iter().map(|f| json!({
+                    "solid": f.solid,
+                    "mol_per_kg_water": f.mol_per_kg_water,
+                    "g_per_kg_product": f.g_per_kg_water().map(|g| g * water_per_product),
+                })).collect::<Vec<_>>(),
+                "saturation": p.saturation.iter().map(|x| json!({
+                    "solid": x.solid,
+                    "saturation_index": x.saturation_index,
+                })).collect::<Vec<_>>(),
+            })),
             "water_kg": report.batch.totals.water_kg,
             "batch_mass_g": report.batch.total_mass_g,
             "converged": s.converged(),
@@ -227,6 +248,26 @@ pub fn ph(args: &RecipeArgs) -> Result<ExitCode> {
         }
     }
     t += &speciation_text(&report.speciation);
+    if let Some(p) = &settled {
+        t += &format!(
+            "\nwith supersaturated solids settled out: pH {:.3}, ionic strength {:.4} mol/kg water{}\n",
+            p.solution.ph,
+            p.solution.ionic_strength,
+            if p.converged { "" } else { " (not converged)" }
+        );
+        if p.formed.is_empty() {
+            t += "  no solid forms: none is above saturation\n";
+        }
+        for f in &p.formed {
+            let grams = f.g_per_kg_water().map_or_else(String::new, |g| {
+                format!("  {:.4} g per kg of product", g * water_per_product)
+            });
+            t += &format!(
+                "  {:<16} {:>12.4e} mol/kg water{grams}\n",
+                f.solid, f.mol_per_kg_water
+            );
+        }
+    }
     if let Some(c) = capacity.as_ref().filter(|c| !c.chelants.is_empty()) {
         t += &format!(
             "\nchelant capacity at this pH: {:.0} ppm hardness as CaCO₃ of product (free Ca²⁺ held at 1e-5 mol/kg)\n",

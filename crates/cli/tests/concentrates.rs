@@ -128,3 +128,41 @@ fn bad_hardness_is_refused() {
     let err = fails(&["ph", "water=1000g", "--hardness-calcium", "0.5"]);
     assert!(err.contains("--hardness"), "{err}");
 }
+
+#[test]
+fn precipitate_settles_lime_to_the_saturated_standard_and_lists_the_solid() {
+    let v = json(&[
+        "ph",
+        "water=1000g",
+        "calcium_hydroxide=5g",
+        "--precipitate",
+        "--json",
+    ]);
+    let p = &v["precipitation"];
+    assert_eq!(p["converged"], true);
+    // Saturated Ca(OH)₂ at 25 °C: pH 12.454, an IUPAC secondary standard (Buck et al., Pure
+    // Appl. Chem. 74 (2002) 2169, from memory).
+    assert!((p["ph"].as_f64().unwrap() - 12.454).abs() < 0.05, "{p}");
+    let lime = find(&p["formed"], "solid", "portlandite");
+    // About 0.020 mol/kg dissolves (CRC Handbook, from memory), so about 0.047 of the 0.0675
+    // mol/kg (5 g at 74.09 g/mol, IUPAC atomic weights) settles out.
+    let formed = lime["mol_per_kg_water"].as_f64().unwrap();
+    assert!((formed - (5.0 / 74.09 - 0.020)).abs() < 0.004, "{formed}");
+    let g = lime["g_per_kg_product"].as_f64().unwrap();
+    assert!((g - formed * 74.09 * 1.0 / 1.005).abs() < 0.01 * g, "{g}");
+    assert!(
+        find(&p["saturation"], "solid", "portlandite")["saturation_index"]
+            .as_f64()
+            .unwrap()
+            .abs()
+            < 1e-7
+    );
+    // Without the switch the field is null and the pH is that of everything dissolved.
+    let off = json(&["ph", "water=1000g", "calcium_hydroxide=5g", "--json"]);
+    assert!(off["precipitation"].is_null());
+    assert!(off["ph"].as_f64().unwrap() > p["ph"].as_f64().unwrap());
+    // The text output names the solid and its grams.
+    let text = stdout_ok(&["ph", "water=1000g", "calcium_hydroxide=5g", "--precipitate"]);
+    assert!(text.contains("settled out"), "{text}");
+    assert!(text.contains("portlandite"), "{text}");
+}

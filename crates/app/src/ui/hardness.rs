@@ -4,6 +4,7 @@
 
 use egui::{RichText, Role, Ui};
 use saltwise_chem::limits::{CALCIUM_SHARE, HARDNESS_PPM};
+use saltwise_chem::precipitation::Precipitation;
 use saltwise_chem::project::Project;
 use saltwise_chem::recipe::{Hardness, HardnessAnion};
 use saltwise_chem::report::Report;
@@ -48,8 +49,18 @@ pub fn hardness_ui(ui: &mut Ui, project: &mut Project, engine: &Engine, refused:
         .default_open(false)
         .show(ui, |ui| {
             water_ui(ui, project, refused);
+            ui.checkbox(
+                &mut project.settings.precipitate,
+                "Let supersaturated solids settle out",
+            )
+            .on_hover_text(
+                "Solids above saturation leave the solution until saturated; the readout lists them and the pH left. The dose curve and sweeps do not precipitate.",
+            );
             if let Some(report) = engine.solved() {
                 ui.separator();
+                if let Some(p) = engine.settled() {
+                    settled_ui(ui, report, p);
+                }
                 results_ui(ui, report);
             }
         });
@@ -117,6 +128,72 @@ fn water_ui(ui: &mut Ui, project: &mut Project, refused: &mut Refusals) {
             super::name_widget(r, Role::ComboBox, "Hardness comes with");
             ui.end_row();
         });
+}
+
+/// One line for the readout: the solids that settle out and the pH left, when precipitation is on.
+pub fn settled_summary(report: &Report, p: &Precipitation) -> String {
+    if p.formed.is_empty() {
+        return "Settling: no solid is above saturation".into();
+    }
+    let per_product = water_per_product(report);
+    let list: Vec<String> = p
+        .formed
+        .iter()
+        .map(|f| match f.g_per_kg_water() {
+            Some(g) => format!(
+                "{} {} g/kg",
+                f.solid.replace('_', " "),
+                sig(g * per_product, 3)
+            ),
+            None => format!(
+                "{} {} mmol/kg water",
+                f.solid.replace('_', " "),
+                sig(f.mol_per_kg_water * 1e3, 3)
+            ),
+        })
+        .collect();
+    format!(
+        "Settles out: {} of product · pH left {:.2}{}",
+        list.join(", "),
+        p.solution.ph,
+        if p.converged { "" } else { " (not converged)" }
+    )
+}
+
+/// kg of water per kg of product.
+fn water_per_product(report: &Report) -> f64 {
+    report.batch.totals.water_kg / (report.batch.total_mass_g * 1e-3)
+}
+
+fn settled_ui(ui: &mut Ui, report: &Report, p: &Precipitation) {
+    ui.label(RichText::new(settled_summary(report, p)).strong());
+    if p.formed.is_empty() {
+        return;
+    }
+    let per_product = water_per_product(report);
+    egui::Grid::new("settled_grid")
+        .spacing([12.0, 2.0])
+        .striped(true)
+        .show(ui, |ui| {
+            ui.strong("solid formed");
+            ui.strong("mmol/kg water");
+            ui.strong("g per kg of product");
+            ui.end_row();
+            for f in &p.formed {
+                ui.label(&f.name);
+                ui.label(sig(f.mol_per_kg_water * 1e3, 3));
+                ui.label(
+                    f.g_per_kg_water()
+                        .map_or_else(|| "—".into(), |g| sig(g * per_product, 3)),
+                );
+                ui.end_row();
+            }
+        });
+    ui.weak(format!(
+        "Left in solution: pH {:.2}, ionic strength {} mol/kg water. The saturation below is of the recipe as made.",
+        p.solution.ph,
+        sig(p.solution.ionic_strength, 3)
+    ));
 }
 
 fn anion_words(a: HardnessAnion) -> &'static str {

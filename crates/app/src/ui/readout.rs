@@ -33,6 +33,9 @@ pub fn readout_ui(ui: &mut Ui, settings: &mut Settings, engine: &Engine, refused
             ui.separator();
             ui.label(text);
         }
+        if let (Some(report), Some(p)) = (engine.solved(), engine.settled()) {
+            ui.label(super::hardness::settled_summary(report, p));
+        }
         if let Some((text, done)) = super::tolerance::band_text(engine) {
             let text = RichText::new(text);
             ui.label(if done { text.strong() } else { text.weak() });
