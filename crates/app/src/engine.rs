@@ -18,6 +18,7 @@ use saltwise_chem::{Amount, Library, Recipe, Unit};
 use saltwise_chem::curve::Doser;
 pub use saltwise_chem::curve::{CurvePoint, DoseResult, EquivalencePoint};
 use saltwise_chem::design::{self, Design};
+use saltwise_chem::distribution::{self, MetalDistribution};
 use saltwise_chem::drift::{self, Drift};
 use saltwise_chem::explain::{self, IngredientEffect};
 use saltwise_chem::hazard::{self, Caution};
@@ -149,13 +150,15 @@ impl CurveKey {
     }
 }
 
-/// What the species chart is made from, beyond the report: the chosen system and active forms.
-type SpeciesKey = (Option<String>, BTreeMap<String, usize>);
+/// What the species chart is made from, beyond the report: the chosen system or metal, the
+/// active forms, and whether solids settle out.
+type SpeciesKey = (Option<String>, BTreeMap<String, usize>, bool);
 
 fn species_key(settings: &Settings) -> SpeciesKey {
     (
         settings.species_system.clone(),
         settings.active_forms.clone(),
+        settings.precipitate,
     )
 }
 
@@ -169,6 +172,8 @@ pub struct Engine {
     cautions: Option<(String, Vec<Caution>)>,
     curve: Option<(CurveKey, Result<CurveData, String>)>,
     species: Option<(SpeciesKey, Option<SpeciesData>)>,
+    /// The chosen metal's distribution against pH, when a metal is chosen on the species chart.
+    metal: Option<MetalDistribution>,
     /// The pH band under the project's tolerances, when any are set.
     band: Option<BandJob>,
     /// Each variant with the curve settings its row was made for; emptied with the constants.
@@ -199,6 +204,7 @@ impl Engine {
             cautions: None,
             curve: None,
             species: None,
+            metal: None,
             band: None,
             variants: Vec::new(),
             settled: None,
@@ -271,6 +277,11 @@ impl Engine {
     pub fn qc(&self) -> Option<&Result<QcData, String>> {
         self.qc_wanted.set(true);
         self.qc.as_ref().map(|(_, q)| q)
+    }
+
+    /// The distribution against pH of the metal chosen on the species chart, if one is.
+    pub fn metal(&self) -> Option<&MetalDistribution> {
+        self.metal.as_ref()
     }
 
     /// The pH band under the project's tolerances: `None` when none are set.
@@ -460,11 +471,15 @@ impl Engine {
         let key = species_key(s);
         if self.species.as_ref().is_none_or(|(k, _)| *k != key) {
             self.solves += 1;
-            let data = match (report, constants) {
-                (Some(Ok(report)), Some(constants)) => species_data(library, constants, report, s),
-                _ => None,
+            let (data, metal) = match (report, constants) {
+                (Some(Ok(report)), Some(constants)) => (
+                    species_data(library, constants, report, s),
+                    metal_data(library, constants, report, s),
+                ),
+                _ => (None, None),
             };
             self.species = Some((key, data));
+            self.metal = metal;
         }
         if !band_job::any_set(&s.tolerances) {
             self.band = None;
@@ -572,6 +587,7 @@ impl Engine {
         self.cautions = Some((s.adjuster.clone(), Vec::new()));
         self.curve = Some((CurveKey::of(s), Err(why.clone())));
         self.species = Some((species_key(s), None));
+        self.metal = None;
         self.settled = Some((s.precipitate, None));
         self.qc = Some((s.qc.clone(), Err(why.clone())));
         self.band = band_job::any_set(&s.tolerances)
@@ -801,6 +817,34 @@ fn qc_data(
         normality: titrant.normality(),
         prediction,
     })
+}
+
+/// pH step of the metal distribution chart.
+const METAL_PH_STEP: f64 = 0.1;
+
+fn metal_data(
+    library: &Library,
+    constants: &Constants,
+    report: &Report,
+    settings: &Settings,
+) -> Option<MetalDistribution> {
+    let chosen = settings.species_system.as_deref()?;
+    if !distribution::bound_metals(library, &report.composition)
+        .iter()
+        .any(|m| m == chosen)
+    {
+        return None;
+    }
+    let steps = (14.0 / METAL_PH_STEP).round() as usize;
+    distribution::metal_distribution(
+        library,
+        constants,
+        &report.composition,
+        &report.solution,
+        chosen,
+        (0..=steps).map(|i| i as f64 * METAL_PH_STEP),
+        settings.precipitate,
+    )
 }
 
 fn species_data(

@@ -106,7 +106,8 @@ fn settling_lists_the_calcite_formed_and_the_ph_left() {
     h.run();
     type_into(&mut h, "Water hardness", "300");
     assert!(h.query_by_label_contains("Settles out").is_none());
-    h.get_by_label("Let supersaturated solids settle out").click();
+    h.get_by_label("Let supersaturated solids settle out")
+        .click();
     h.run();
     assert!(h.state().project().settings.precipitate);
     let p = h.state().engine().settled().expect("settled").clone();
@@ -121,7 +122,11 @@ fn settling_lists_the_calcite_formed_and_the_ph_left() {
     let mmol = calcite.mol_per_kg_water * 1e3;
     assert!(mmol > 0.9 * 2.1 && mmol <= 2.1, "{mmol}");
     // The readout and the section both say so, in grams per kg of product.
-    assert!(h.query_all_by_label_contains("Settles out: calcite").count() >= 2);
+    assert!(
+        h.query_all_by_label_contains("Settles out: calcite")
+            .count()
+            >= 2
+    );
     assert!(h.query_by_label_contains("g per kg of product").is_some());
     // Saved with the project.
     let ron = h.state().project().to_ron().unwrap();
@@ -131,4 +136,46 @@ fn settling_lists_the_calcite_formed_and_the_ph_left() {
             .settings
             .precipitate
     );
+}
+
+/// An invented dish liquid base: calcium chloride and tetrasodium EDTA in water.
+fn chelated_base() -> Project {
+    let mut p = Project::with_recipe(Recipe::in_grams(&[
+        ("water", 1000.0),
+        ("calcium_chloride_dihydrate", 0.147),
+        ("tetrasodium_edta_39", 1.95),
+    ]));
+    p.name = "Wrenfield dish base".into();
+    p
+}
+
+#[test]
+fn the_species_panel_charts_where_calcium_is_against_ph() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness_in(chelated_base(), &Folders::under(dir.path()));
+    h.get_by_label("Species system").click();
+    h.run();
+    h.get_by_role_and_label(
+        egui::accesskit::Role::Button,
+        "calcium (Ca²⁺): free, bound, settled",
+    )
+    .click();
+    h.run();
+    assert_eq!(
+        h.state().project().settings.species_system.as_deref(),
+        Some("calcium")
+    );
+    let d = h.state().engine().metal().expect("a metal chart").clone();
+    assert_eq!(d.metal, "calcium");
+    // 1 mmol/kg Ca²⁺ with 2 mmol/kg EDTA at the recipe's pH (about 10.5): bound, as log K(CaY²⁻)
+    // 10.65 (Martell & Smith, from memory) says.
+    assert!(h.query_by_label_contains("mostly with").is_some());
+    assert!(h.query_all_by_label_contains("free Ca²⁺").count() >= 1);
+    let edta = d.parts.iter().position(|p| p == "edta").expect("edta part");
+    let at_ten = d
+        .points
+        .iter()
+        .find(|(ph, _)| (ph - 10.0).abs() < 1e-9)
+        .unwrap();
+    assert!(at_ten.1[edta] > 0.99);
 }

@@ -12,6 +12,7 @@ pub mod amount;
 pub mod chelant;
 pub mod curve;
 pub mod design;
+pub mod distribution;
 pub mod drift;
 pub mod error;
 pub mod explain;

@@ -126,6 +126,8 @@ struct Search<'a> {
     activity: solver::ActivityModel,
     amounts: Vec<(usize, f64)>,
     last: Solution,
+    /// A pH held fixed (as by an acid or base added to hold it), the coefficients held too.
+    fixed_ph: Option<f64>,
 }
 
 impl Search<'_> {
@@ -136,11 +138,19 @@ impl Search<'_> {
             amounts[i].1 = n;
         }
         let c = remove(self.library, self.constants, self.base, &amounts);
-        let guess = Guess {
-            ph: self.last.ph,
-            ionic_strength: self.last.ionic_strength,
+        let s = match self.fixed_ph {
+            Some(ph) => Solution {
+                ph,
+                ..self.last.clone()
+            },
+            None => {
+                let guess = Guess {
+                    ph: self.last.ph,
+                    ionic_strength: self.last.ionic_strength,
+                };
+                solver::solve_near(self.constants, &c, Some(guess), self.activity, &self.last)
+            }
         };
-        let s = solver::solve_near(self.constants, &c, Some(guess), self.activity, &self.last);
         let si = solver::saturation(self.library, self.constants, &c, &s);
         self.last = s.clone();
         (c, s, si)
@@ -221,6 +231,28 @@ pub fn precipitate(
     composition: &Composition,
     solution: &Solution,
 ) -> Precipitation {
+    settle(library, constants, composition, solution, None)
+}
+
+/// [`precipitate`] with the pH held at `ph` (as by acid or base added to hold it) and the
+/// activity coefficients held at those of `solution`: what settles out at each pH of a chart.
+pub fn precipitate_at_ph(
+    library: &Library,
+    constants: &Constants,
+    composition: &Composition,
+    solution: &Solution,
+    ph: f64,
+) -> Precipitation {
+    settle(library, constants, composition, solution, Some(ph))
+}
+
+fn settle(
+    library: &Library,
+    constants: &Constants,
+    composition: &Composition,
+    solution: &Solution,
+    fixed_ph: Option<f64>,
+) -> Precipitation {
     let mut search = Search {
         library,
         constants,
@@ -228,6 +260,7 @@ pub fn precipitate(
         activity: solution.activity,
         amounts: Vec::new(),
         last: solution.clone(),
+        fixed_ph,
     };
     let index_of = |id: &str| library.solids().iter().position(|s| s.data.id == id);
     let mut converged = false;
