@@ -173,8 +173,101 @@ impl<'a> ChargeBalance<'a> {
     }
 
     /// Finds the root of the charge balance from `start` inside the searched pH range.
+    ///
+    /// With metals bound, Newton steps on pH and the free metals together come first; they
+    /// usually converge in a few steps, each closing no balance on its own. If they leave the
+    /// range or do not converge, the bracketed search (which closes the metals inside every
+    /// evaluation, and always returns) takes over from the start.
     pub fn root(&mut self, start: f64) -> super::newton::Outcome {
+        if !self.binding.is_empty() {
+            let u0 = self.u.clone();
+            if let Some(outcome) = self.joint_root(start) {
+                return outcome;
+            }
+            self.u = u0;
+            self.state.forget_warm_start();
+        }
         super::newton::solve_bracketed(|x| self.evaluate(x), start, super::PH_MIN, super::PH_MAX)
+    }
+
+    /// Joint Newton on (pH, ln free metals): `None` unless it converges inside the range.
+    fn joint_root(&mut self, start: f64) -> Option<super::newton::Outcome> {
+        const MAX_STEPS: u32 = 30;
+        const REL_TOL: f64 = 1e-14;
+        const METAL_TOL: f64 = 1e-14;
+        let k = self.binding.metals.len();
+        let n = k + 1;
+        let mut a = vec![0.0; n * n];
+        let mut b = vec![0.0; n];
+        let mut ph = start.clamp(super::PH_MIN, super::PH_MAX);
+        if !ph.is_finite() {
+            return None;
+        }
+        for iteration in 1..=MAX_STEPS {
+            let h = (-ph * LN_10).exp();
+            let inv_h = 1.0 / h;
+            let h_molal = h / self.gamma[H];
+            let oh_molal = self.constants.kw * inv_h / self.gamma[OH];
+            let c = self.composition;
+            let sums = [
+                c.spectator_charge + h_molal - oh_molal,
+                c.spectator_abs_charge + h_molal + oh_molal,
+                c.spectator_z2 + h_molal + oh_molal,
+            ];
+            self.distributions(inv_h);
+            let inputs = Inputs {
+                k_cond: &self.k_cond,
+                q: &self.dist.q,
+                q_start: &self.dist.q_start,
+                mean: &self.dist.mean,
+                variance: &self.dist.variance,
+                totals: &self.totals,
+                oh: oh_molal,
+                ph,
+            };
+            self.binding.linearize(&inputs, &self.u, &mut self.state);
+            let e = self.bound_evaluation(h_molal, oh_molal, sums);
+            if !e.residual.is_finite() {
+                return None;
+            }
+            if e.residual.abs() <= REL_TOL * e.scale && self.state.metal_residual <= METAL_TOL {
+                self.binding.close_at(ph, &mut self.state);
+                let e = self.bound_evaluation(h_molal, oh_molal, sums);
+                return Some(super::newton::Outcome {
+                    x: ph,
+                    iterations: iteration,
+                    status: super::newton::Status::Converged,
+                    ionic_strength: e.ionic_strength,
+                    at_x: Some(e),
+                });
+            }
+            let lin = self.binding.jacobian(&self.state);
+            // Row 0: the charge balance; rows 1..: the metals. Column 0: pH; 1..: ln m.
+            a[0] = -LN_10 * (h_molal + oh_molal) + lin.drdp;
+            a[1..n].copy_from_slice(lin.drdu);
+            b[0] = -e.residual;
+            for m in 0..k {
+                let row = &mut a[(m + 1) * n..(m + 2) * n];
+                row[0] = lin.dfdp[m];
+                row[1..].copy_from_slice(&lin.dfdu[m * k..(m + 1) * k]);
+                b[m + 1] = -lin.f[m];
+            }
+            if !super::binding::solve_linear(&mut a, &mut b, n) {
+                return None;
+            }
+            // At most one pH unit and a factor e² in any free metal per step.
+            let scale = (b[0].abs() / 1.0)
+                .max(b[1..].iter().fold(0.0f64, |x, s| x.max(s.abs())) / 2.0)
+                .max(1.0);
+            ph += b[0] / scale;
+            if !(super::PH_MIN..=super::PH_MAX).contains(&ph) || !ph.is_finite() {
+                return None;
+            }
+            for (m, metal) in self.binding.metals.iter().enumerate() {
+                self.u[m] = (self.u[m] + b[m + 1] / scale).min(metal.total.ln());
+            }
+        }
+        None
     }
 
     /// The coefficients held.
@@ -310,9 +403,19 @@ impl<'a> ChargeBalance<'a> {
         inv_h: f64,
         h_molal: f64,
         oh_molal: f64,
-        [mut residual, mut scale, mut z2_sum]: [f64; 3],
+        sums: [f64; 3],
     ) -> Evaluation {
         self.bound(inv_h, oh_molal);
+        self.bound_evaluation(h_molal, oh_molal, sums)
+    }
+
+    /// The evaluation from the bound state as it stands (free metals as they are).
+    fn bound_evaluation(
+        &self,
+        h_molal: f64,
+        oh_molal: f64,
+        [mut residual, mut scale, mut z2_sum]: [f64; 3],
+    ) -> Evaluation {
         let state = &self.state;
         let c = self.composition;
         let mut protons_removed = 0.0;

@@ -153,6 +153,20 @@ pub struct BoundState {
     du_dp: Vec<f64>,
 }
 
+/// The linearization of the metal balances and the bound part of the charge residual.
+pub struct Linearization<'s> {
+    /// Metal residuals F = free + bound − total, per metal.
+    pub f: &'s [f64],
+    /// ∂F/∂u, k×k row-major (u = ln free metal).
+    pub dfdu: &'s [f64],
+    /// ∂F/∂pH.
+    pub dfdp: &'s [f64],
+    /// ∂R/∂pH of the bound part at fixed u.
+    pub drdp: f64,
+    /// ∂R/∂u of the bound part.
+    pub drdu: &'s [f64],
+}
+
 /// Inputs of one bound-state evaluation.
 pub struct Inputs<'a> {
     /// Conditional formation constant of each complex (molal).
@@ -175,6 +189,13 @@ pub struct Inputs<'a> {
 
 const LN10: f64 = std::f64::consts::LN_10;
 
+impl BoundState {
+    /// Drops the first-order start, so the next solve starts from the free metals as given.
+    pub fn forget_warm_start(&mut self) {
+        self.last_ph = None;
+    }
+}
+
 impl Binding {
     /// Solves the metal balances at fixed free-ligand distributions, from `u` (ln free metal,
     /// updated in place), leaving the bound state and dR/dpH's correction in `state`.
@@ -187,22 +208,8 @@ impl Binding {
         max_steps: usize,
     ) {
         let k = self.metals.len();
-        let d = k + 1;
-        let resize = |v: &mut Vec<f64>, n: usize| {
-            v.clear();
-            v.resize(n, 0.0);
-        };
-        resize(&mut state.f, k);
-        resize(&mut state.jac, k * k);
-        resize(&mut state.free, k);
-        resize(&mut state.complex, self.complexes.len());
-        resize(&mut state.dln_c, self.complexes.len() * d);
-        resize(&mut state.dp_slot, self.by_slot.len() * d);
-        resize(&mut state.protons_removed, self.by_slot.len());
-        resize(&mut state.dln_d, d);
-        resize(&mut state.dsum_ja, d);
-        resize(&mut state.dr, d);
-        resize(&mut state.dfdp, k);
+        // Every entry is written before it is read, so only the lengths need setting.
+        self.prepare(state);
         if let Some(last) = state.last_ph
             && state.du_dp.len() == k
         {
@@ -354,9 +361,67 @@ impl Binding {
         }
     }
 
+    /// The metal residuals and every partial derivative at (pH, `u`) as they stand, without
+    /// closing the metal balances: the linearization a joint Newton step on pH and the free
+    /// metals needs ([`Self::jacobian`] reads it).
+    pub fn linearize(&self, inputs: &Inputs<'_>, u: &[f64], state: &mut BoundState) {
+        self.prepare(state);
+        self.residuals(inputs, u, state);
+        state.metal_residual = self.worst(state);
+        self.partials(state);
+    }
+
+    /// After [`Self::linearize`] at a point where the balances are closed: the derivative
+    /// correction and the first-order start of the next solve, as [`Self::solve`] leaves them.
+    pub fn close_at(&self, ph: f64, state: &mut BoundState) {
+        self.closing(state);
+        state.last_ph = Some(ph);
+    }
+
+    /// The linearization of the last [`Self::linearize`]: metal residuals F, ∂F/∂u (k×k,
+    /// row-major), ∂F/∂pH, ∂R/∂pH and ∂R/∂u of the bound part of the charge residual.
+    pub fn jacobian<'s>(&self, state: &'s BoundState) -> Linearization<'s> {
+        Linearization {
+            f: &state.f,
+            dfdu: &state.jac,
+            dfdp: &state.dfdp,
+            drdp: state.dr[0],
+            drdu: &state.dr[1..],
+        }
+    }
+
+    /// Sets the scratch lengths for this binding.
+    fn prepare(&self, state: &mut BoundState) {
+        let k = self.metals.len();
+        let d = k + 1;
+        let resize = |v: &mut Vec<f64>, n: usize| {
+            if v.len() != n {
+                v.clear();
+                v.resize(n, 0.0);
+            }
+        };
+        resize(&mut state.f, k);
+        resize(&mut state.jac, k * k);
+        resize(&mut state.free, k);
+        resize(&mut state.complex, self.complexes.len());
+        resize(&mut state.dln_c, self.complexes.len() * d);
+        resize(&mut state.dp_slot, self.by_slot.len() * d);
+        resize(&mut state.protons_removed, self.by_slot.len());
+        resize(&mut state.dln_d, d);
+        resize(&mut state.dsum_ja, d);
+        resize(&mut state.dr, d);
+        resize(&mut state.dfdp, k);
+    }
+
     /// ∂F/∂p, ∂R/∂p and ∂R/∂u at the last residuals, with R's bound part −Σ P_L − Σ hydroxo C,
     /// and the correction −∂R/∂u · J⁻¹ · ∂F/∂p.
     fn derivatives(&self, st: &mut BoundState) {
+        self.partials(st);
+        self.closing(st);
+    }
+
+    /// ∂F/∂p, ∂R/∂p and ∂R/∂u at the last residuals.
+    fn partials(&self, st: &mut BoundState) {
         let k = self.metals.len();
         let d = k + 1;
         st.dfdp.iter_mut().for_each(|x| *x = 0.0);
@@ -374,26 +439,33 @@ impl Binding {
                 st.dr[v] -= st.complex[c] * st.dln_c[c * d + v];
             }
         }
+        st.partial_p = st.dr[0];
+    }
+
+    /// The correction −∂R/∂u · J⁻¹ · ∂F/∂p and du/dp, from the partials.
+    fn closing(&self, st: &mut BoundState) {
+        let k = self.metals.len();
+        st.step.clear();
+        st.step.extend_from_slice(&st.dfdp);
         st.work.clear();
         st.work.extend_from_slice(&st.jac);
-        let solved = k > 0 && solve_linear(&mut st.work, &mut st.dfdp, k);
+        let solved = k > 0 && solve_linear(&mut st.work, &mut st.step, k);
         let correction = if solved {
-            -(0..k).map(|n| st.dr[1 + n] * st.dfdp[n]).sum::<f64>()
+            -(0..k).map(|n| st.dr[1 + n] * st.step[n]).sum::<f64>()
         } else {
             0.0
         };
         // J·du/dp = −∂F/∂p.
         st.du_dp.clear();
         if solved {
-            st.du_dp.extend(st.dfdp.iter().map(|x| -x));
+            st.du_dp.extend(st.step.iter().map(|x| -x));
         }
-        st.partial_p = st.dr[0];
         st.derivative_correction = correction;
     }
 }
 
 /// Solves a·x = b in place (k×k, row-major) by Gaussian elimination with partial pivoting.
-fn solve_linear(a: &mut [f64], b: &mut [f64], k: usize) -> bool {
+pub fn solve_linear(a: &mut [f64], b: &mut [f64], k: usize) -> bool {
     for col in 0..k {
         let pivot = (col..k)
             .max_by(|&i, &j| a[i * k + col].abs().total_cmp(&a[j * k + col].abs()))

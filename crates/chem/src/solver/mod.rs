@@ -324,8 +324,8 @@ pub struct Guess {
 /// continuous.
 pub fn solve(constants: &Constants, composition: &Composition, guess: Option<Guess>) -> Solution {
     let requested = constants.conditions.activity;
-    let first = solve_with(constants, composition, guess, requested.fixed(), &[]);
-    if requested != ActivityModel::Auto || davies_holds(constants, composition, &first) {
+    let (first, mut model) = solve_model(constants, composition, guess, requested.fixed(), &[]);
+    if requested != ActivityModel::Auto || holds(&mut model, &first) {
         return first;
     }
     let from = Guess {
@@ -344,11 +344,20 @@ pub fn solve(constants: &Constants, composition: &Composition, guess: Option<Gue
 /// Whether Davies holds at a solved state: its ionic strength within the limit for the
 /// largest charge that carries a tenth of the ionic strength.
 pub fn davies_holds(constants: &Constants, composition: &Composition, solution: &Solution) -> bool {
-    if solution.ionic_strength <= 0.1 {
+    let mut model = balance::ChargeBalance::at_solution(constants, composition, solution);
+    holds(&mut model, solution)
+}
+
+/// [`davies_holds`] with the balance the state was solved with.
+fn holds(model: &mut balance::ChargeBalance<'_>, solution: &Solution) -> bool {
+    let i = solution.ionic_strength;
+    if i <= ActivityModel::davies_limit(3) {
         return true;
     }
-    let z = largest_significant_charge(constants, composition, solution);
-    solution.ionic_strength <= ActivityModel::davies_limit(z)
+    if i > ActivityModel::davies_limit(1) {
+        return false;
+    }
+    i <= ActivityModel::davies_limit(significant_charge(model, solution.ph))
 }
 
 /// Largest |z| among the species carrying at least a tenth of the ionic strength.
@@ -358,7 +367,12 @@ pub fn largest_significant_charge(
     solution: &Solution,
 ) -> i32 {
     let mut model = balance::ChargeBalance::at_solution(constants, composition, solution);
-    let m = model.molalities(solution.ph);
+    significant_charge(&mut model, solution.ph)
+}
+
+/// [`largest_significant_charge`] from the balance of the solved state.
+fn significant_charge(model: &mut balance::ChargeBalance<'_>, ph: f64) -> i32 {
+    let m = model.molalities(ph);
     let (layout, _, _) = model.parts();
     let ionic: f64 = layout
         .charges
@@ -415,17 +429,29 @@ fn solve_with(
     activity: ActivityModel,
     free_metals: &[f64],
 ) -> Solution {
+    solve_model(constants, composition, guess, activity, free_metals).0
+}
+
+/// [`solve_with`], also giving the balance it solved (holding the solved state).
+fn solve_model<'a>(
+    constants: &'a Constants,
+    composition: &'a Composition,
+    guess: Option<Guess>,
+    activity: ActivityModel,
+    free_metals: &[f64],
+) -> (Solution, balance::ChargeBalance<'a>) {
     let mut model = balance::ChargeBalance::with_model(constants, composition, activity);
     model.set_free_metals(free_metals);
     let start_ionic = guess
         .map_or(0.5 * composition.spectator_z2, |g| g.ionic_strength)
         .max(0.0);
     let start_ph = guess.map_or(7.0, |g| g.ph);
-    if model.is_pitzer() {
+    let solution = if model.is_pitzer() {
         solve_pitzer(&mut model, start_ph, start_ionic)
     } else {
         solve_by_charge(&mut model, activity, start_ph, start_ionic)
-    }
+    };
+    (solution, model)
 }
 
 /// Davies or ideal: the fixed point of the ionic strength, by secant steps.
