@@ -64,8 +64,9 @@ th, td {{ border-bottom: 1px solid var(--rule); padding: 4px 6px; text-align: le
 th {{ font-size: 11.5px; text-transform: uppercase; letter-spacing: .05em; color: var(--muted); }}
 td.num, th.num {{ text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }}
 td.mass {{ font-weight: 700; }}
-td.box {{ width: 16%; border-bottom: 1px solid var(--ink); }}
+td.box {{ width: 11%; border-bottom: 1px solid var(--ink); }}
 tr.total td {{ border-top: 2px solid var(--ink); font-weight: 700; }}
+table.weigh code {{ overflow-wrap: anywhere; word-break: break-all; }}
 code {{ font-family: "DejaVu Sans Mono", monospace; font-size: 12px; color: var(--muted); }}
 p.instruction {{ font-size: 16px; padding: 8px 10px; border: 1px solid var(--target); background: #eef8f4; }}
 p.instruction.none {{ border-color: var(--rule); background: var(--tint); }}
