@@ -24,7 +24,7 @@ pub struct ReportArgs {
     #[arg(long, value_name = "NAME")]
     pub variant: Option<String>,
     /// The batch size, in g or kg (e.g. 250kg, 5000g); default the recipe's own batch, in g.
-    #[arg(long, value_name = "MASS")]
+    #[arg(long, value_name = "MASS", allow_hyphen_values = true)]
     pub batch: Option<String>,
     /// The HTML file to write (replaced atomically).
     #[arg(long, value_name = "FILE.html")]

@@ -164,18 +164,18 @@ fn tiles(h: &mut String, s: &BatchSheet) {
         (None, Some(p)) => format!("no pH band: {p}"),
         (None, None) => "no weighing tolerances set".into(),
     };
-    let _ = write!(
+    let _ = writeln!(
         h,
-        "<div class=\"tile\"><div class=\"label\">Predicted pH, as weighed</div><div class=\"value\">{}</div><div class=\"sub\">{}</div></div>\n",
+        "<div class=\"tile\"><div class=\"label\">Predicted pH, as weighed</div><div class=\"value\">{}</div><div class=\"sub\">{}</div></div>",
         fixed(s.ph, 2),
         e(&band)
     );
     match s.target {
         Some(t) => {
             let inside = (s.ph - t.ph).abs() <= t.tolerance;
-            let _ = write!(
+            let _ = writeln!(
                 h,
-                "<div class=\"tile target\"><div class=\"label\">Target pH</div><div class=\"value\">{} ± {}</div><div class=\"sub\">{}</div></div>\n",
+                "<div class=\"tile target\"><div class=\"label\">Target pH</div><div class=\"value\">{} ± {}</div><div class=\"sub\">{}</div></div>",
                 fixed(t.ph, 2),
                 fixed(t.tolerance, 2),
                 if inside {
@@ -215,9 +215,9 @@ fn weighing(h: &mut String, s: &BatchSheet) {
     let e = escape;
     let b = &s.batch;
     h.push_str("<section>\n<h2><span class=\"no\">1</span>Weigh and add, in this order</h2>\n");
-    let _ = write!(
+    let _ = writeln!(
         h,
-        "<p class=\"note\">The recipe scaled from {} g to {}; each line as supplied (its assay as in the library).</p>\n",
+        "<p class=\"note\">The recipe scaled from {} g to {}; each line as supplied (its assay as in the library).</p>",
         plain(s.recipe_batch_g, 6),
         e(&b.show(b.mass_g))
     );

@@ -5,7 +5,7 @@
 //! what they get with chem's `project::write_atomic`, so a failed export never leaves half a file.
 //!
 //! - Charts: build a [`DoseChart`] (also drawn as [`Chart::BufferCapacity`]), [`SpeciesChart`]
-//!   or [`TitrationChart`], then [`svg`], [`png`] or [`csv`] of a [`Chart`].
+//!   or [`TitrationChart`], then [`svg()`], [`png()`] or [`csv()`] of a [`Chart`].
 //! - Batch sheet: [`batch_sheet`] computes a [`BatchSheet`] from a [`SheetRequest`];
 //!   [`batch_sheet_html`] lays it out.
 
