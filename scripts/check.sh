@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # Exactly what CI runs: format, lints, documentation, the test suite, the workbench
-# kill-and-recover check under Xvfb, and the Python reference checks.
+# kill-and-recover check under Xvfb, the batch sheet in headless Chromium, and the Python
+# reference checks.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 cargo fmt --all -- --check
@@ -15,4 +16,6 @@ if command -v Xvfb >/dev/null 2>&1 && command -v xdotool >/dev/null 2>&1; then
 else
     echo "check.sh: kill-and-recover skipped (needs Xvfb and xdotool; CI installs them)" >&2
 fi
+# The batch sheet printed by headless Chromium: its PDF text shows the numbers the CLI gives.
+tests/browser/run.sh
 tests/python/run.sh

@@ -35,6 +35,8 @@ pub enum Command {
     Compare(crate::compare::CompareArgs),
     /// A QC titration of a sample of product predicted: mL of titrant to each end point, the curve, the titration factor.
     Titrate(crate::titrate::TitrateArgs),
+    /// The batch sheet of a project's variant, scaled to a batch size, as one HTML file.
+    Report(crate::report::ReportArgs),
 }
 
 /// The anion of the water's hardness.

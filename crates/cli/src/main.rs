@@ -1,4 +1,4 @@
-//! `saltwise-cli`: the chemistry core from a terminal — pH, dose curves, doses, QC titrations and the library.
+//! `saltwise-cli`: the chemistry core from a terminal — pH, dose curves, doses, QC titrations, batch sheets and the library.
 //!
 //! Exit codes: 0 success; 1 a problem with the input (message on stderr); 2 bad usage.
 
@@ -7,6 +7,7 @@ mod compare;
 mod design;
 mod input;
 mod output;
+mod report;
 mod sweep;
 mod titrate;
 mod tolerance;
@@ -38,5 +39,6 @@ fn run(cli: args::Cli) -> anyhow::Result<ExitCode> {
         args::Command::Design(a) => design::run(&a),
         args::Command::Compare(a) => compare::run(&a),
         args::Command::Titrate(a) => titrate::run(&a),
+        args::Command::Report(a) => report::run(&a),
     }
 }

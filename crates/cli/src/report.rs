@@ -1,0 +1,190 @@
+//! `saltwise-cli report`: the batch sheet of one variant of a project, scaled to a batch size,
+//! written atomically as one self-contained HTML file.
+
+use std::path::PathBuf;
+use std::process::ExitCode;
+use std::time::{SystemTime, UNIX_EPOCH};
+
+use anyhow::{Context, Result, anyhow, bail};
+use clap::Args;
+use saltwise_chem::Library;
+use saltwise_chem::amount::Unit;
+use saltwise_chem::project::{Project, write_atomic};
+use saltwise_export::{BatchSize, QcPlan, SheetRequest, batch_sheet, batch_sheet_html};
+
+use crate::input;
+
+/// Arguments of `report`.
+#[derive(Debug, Args)]
+pub struct ReportArgs {
+    /// The project file saved by the workbench.
+    #[arg(long, value_name = "FILE")]
+    pub project: PathBuf,
+    /// The variant, by name; default the project's current one.
+    #[arg(long, value_name = "NAME")]
+    pub variant: Option<String>,
+    /// The batch size, in g or kg (e.g. 250kg, 5000g); default the recipe's own batch, in g.
+    #[arg(long, value_name = "MASS", allow_hyphen_values = true)]
+    pub batch: Option<String>,
+    /// The HTML file to write (replaced atomically).
+    #[arg(long, value_name = "FILE.html")]
+    pub out: PathBuf,
+    /// The date printed on the sheet; default today's date (UTC) as YYYY-MM-DD.
+    #[arg(long, value_name = "TEXT")]
+    pub date: Option<String>,
+    /// QC titrant (library id, formula or id without grade); default hcl, or naoh for a product at or below pH 4.3.
+    #[arg(long, value_name = "ID")]
+    pub titrant: Option<String>,
+    /// QC titrant normality, mol/L; default 0.1.
+    #[arg(long, value_name = "N", allow_negative_numbers = true)]
+    pub normality: Option<f64>,
+    /// QC sample of product, e.g. 10g; default 10 g.
+    #[arg(long, value_name = "MASS")]
+    pub sample: Option<String>,
+    /// QC end point pH, repeatable; default 8.3 and 4.3 with an acid titrant, 8.3 with a base.
+    #[arg(long = "endpoint", value_name = "PH", allow_negative_numbers = true)]
+    pub endpoints: Vec<f64>,
+}
+
+/// A batch size as typed: a mass in g or kg, shown on the sheet in the unit typed (mg in g).
+pub fn batch_size(text: &str) -> Result<BatchSize> {
+    let g = input::mass_g(text).with_context(|| format!("--batch '{text}'"))?;
+    saltwise_chem::limits::BATCH_G
+        .check_as(g, "--batch")
+        .context("--batch")?;
+    let unit = saltwise_chem::Amount::parse(text)
+        .map_err(|e| anyhow!(e))?
+        .unit;
+    Ok(match unit {
+        Unit::Kilogram => BatchSize::kilograms(g / 1000.0),
+        _ => BatchSize::grams(g),
+    })
+}
+
+/// Today's date (UTC) as YYYY-MM-DD, from the system clock.
+fn today() -> String {
+    let secs = SystemTime::now()
+        .duration_since(UNIX_EPOCH)
+        .map_or(0, |d| d.as_secs());
+    let (y, m, d) = civil_from_days((secs / 86_400) as i64);
+    format!("{y:04}-{m:02}-{d:02}")
+}
+
+/// The proleptic Gregorian date of a count of days since 1970-01-01 (era arithmetic over
+/// 400-year cycles of 146 097 days).
+fn civil_from_days(days: i64) -> (i64, u32, u32) {
+    let z = days + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z.rem_euclid(146_097);
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let d = (doy - (153 * mp + 2) / 5 + 1) as u32;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 } as u32;
+    let y = yoe + era * 400 + i64::from(m <= 2);
+    (y, m, d)
+}
+
+/// `saltwise-cli report`.
+pub fn run(args: &ReportArgs) -> Result<ExitCode> {
+    let base = Library::built_in().context("the built-in library")?;
+    let (project, library) = Project::load_with_library(&args.project, &base)?;
+    let variant = match &args.variant {
+        None => project.current(),
+        Some(name) => project.variant_index(name).ok_or_else(|| {
+            let names: Vec<String> = project
+                .variants()
+                .iter()
+                .map(|v| format!("'{}'", v.name))
+                .collect();
+            anyhow!(
+                "--variant: {} has no variant called '{name}'; its variants are {}",
+                args.project.display(),
+                names.join(", ")
+            )
+        })?,
+    };
+    let batch = args.batch.as_deref().map(batch_size).transpose()?;
+    let qc = if args.titrant.is_some()
+        || args.normality.is_some()
+        || args.sample.is_some()
+        || !args.endpoints.is_empty()
+    {
+        let sample_g = match &args.sample {
+            Some(s) => input::mass_g(s).context("--sample")?,
+            None => saltwise_export::sheet::QC_SAMPLE_G,
+        };
+        Some(QcPlan {
+            // Without --titrant, the usual choice is made from the product's pH by the sheet.
+            titrant: args.titrant.clone().unwrap_or_default(),
+            normality: args
+                .normality
+                .unwrap_or(saltwise_export::sheet::QC_NORMALITY),
+            sample_g,
+            end_points_ph: args.endpoints.clone(),
+        })
+    } else {
+        None
+    };
+    let date = args.date.clone().unwrap_or_else(today);
+    let request = SheetRequest {
+        project: &project,
+        library: &library,
+        variant,
+        batch,
+        date,
+        qc,
+    };
+    let sheet = batch_sheet(&request)
+        .with_context(|| format!("variant '{}'", project.variants()[variant].name))?;
+    if let Some(plan) = &request.qc {
+        check_qc(plan, &sheet)?;
+    }
+    let html = batch_sheet_html(&sheet)?;
+    write_atomic(&args.out, html.as_bytes(), false)
+        .with_context(|| format!("writing {}", args.out.display()))?;
+    println!(
+        "wrote {} (batch sheet of '{}', {} bytes)",
+        args.out.display(),
+        sheet.variant_name,
+        html.len()
+    );
+    Ok(ExitCode::SUCCESS)
+}
+
+/// QC flags given on the command line must work: a titrant, normality or sample the sheet
+/// could not use is an error rather than a note on the page.
+fn check_qc(plan: &QcPlan, sheet: &saltwise_export::BatchSheet) -> Result<()> {
+    if plan.sample_g <= 0.0 {
+        bail!(
+            "--sample {} g is not allowed: it must be above 0 g",
+            plan.sample_g
+        );
+    }
+    if sheet.qc.kind.is_none() || sheet.qc.results.iter().all(|r| r.prediction.is_err()) {
+        let why = sheet
+            .qc
+            .results
+            .iter()
+            .find_map(|r| r.prediction.as_ref().err())
+            .cloned()
+            .unwrap_or_default();
+        bail!("QC titration: {why}");
+    }
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::civil_from_days;
+
+    #[test]
+    fn days_since_the_epoch_become_dates() {
+        // 1970-01-01 is day 0; 2000-03-01 is day 11 017; 2024-02-29 is day 19 782 (counted by
+        // hand from 365-day years and the Gregorian leap rule).
+        assert_eq!(civil_from_days(0), (1970, 1, 1));
+        assert_eq!(civil_from_days(11_017), (2000, 3, 1));
+        assert_eq!(civil_from_days(19_782), (2024, 2, 29));
+        assert_eq!(civil_from_days(-1), (1969, 12, 31));
+    }
+}
