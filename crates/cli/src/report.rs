@@ -110,18 +110,27 @@ pub fn run(args: &ReportArgs) -> Result<ExitCode> {
         || args.sample.is_some()
         || !args.endpoints.is_empty()
     {
+        // Each flag given replaces that part of the project's QC method.
+        let method = &project.settings.qc;
         let sample_g = match &args.sample {
             Some(s) => input::mass_g(s).context("--sample")?,
-            None => saltwise_export::sheet::QC_SAMPLE_G,
+            None => method.sample_g,
+        };
+        let end_points_ph = if args.endpoints.is_empty() {
+            method.end_points_ph.clone()
+        } else {
+            args.endpoints.clone()
         };
         Some(QcPlan {
-            // Without --titrant, the usual choice is made from the product's pH by the sheet.
-            titrant: args.titrant.clone().unwrap_or_default(),
-            normality: args
-                .normality
-                .unwrap_or(saltwise_export::sheet::QC_NORMALITY),
+            // Without --titrant, the method's titrant (or its choice for the product's pH).
+            titrant: args
+                .titrant
+                .clone()
+                .or_else(|| method.titrant.clone())
+                .unwrap_or_default(),
+            normality: args.normality.unwrap_or(method.normality),
             sample_g,
-            end_points_ph: args.endpoints.clone(),
+            end_points_ph,
         })
     } else {
         None

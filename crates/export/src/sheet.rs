@@ -79,10 +79,6 @@ impl BatchSize {
     }
 }
 
-/// Sample of product in the default QC titration, g (common practice for a bench titration).
-pub const QC_SAMPLE_G: f64 = 10.0;
-/// Normality of the default QC titrant, mol/L (common practice).
-pub const QC_NORMALITY: f64 = 0.1;
 /// Points on the sheet's titration curve.
 pub const QC_POINTS: usize = 121;
 
@@ -90,7 +86,7 @@ pub const QC_POINTS: usize = 121;
 #[derive(Debug, Clone, PartialEq)]
 pub struct QcPlan {
     /// The titrant: library id, formula or id without grade (`hcl`, `naoh`); empty takes the
-    /// usual choice for the product's pH ([`QcPlan::usual_for`]).
+    /// project method's choice for the product's pH ([`qc::Method::titrant_id`]).
     pub titrant: String,
     /// Its normality, mol/L.
     pub normality: f64,
@@ -101,20 +97,14 @@ pub struct QcPlan {
 }
 
 impl QcPlan {
-    /// The usual plan for a product at `ph`: 10 g titrated with 0.1 N HCl to pH 8.3 and 4.3 (P and
-    /// M alkalinity) unless the product is already at or below pH 4.3, then with 0.1 N NaOH to
-    /// pH 8.3 (acidity).
-    pub fn usual_for(ph: f64) -> Self {
-        let titrant = if ph > qc::M_END_POINT_PH {
-            "hcl"
-        } else {
-            "naoh"
-        };
+    /// The plan of a project's QC method for a product at `ph` (the method's own titrant, or
+    /// its automatic choice: HCl at pH 7 or above, NaOH below).
+    pub fn from_method(method: &qc::Method, ph: f64) -> Self {
         Self {
-            titrant: titrant.into(),
-            normality: QC_NORMALITY,
-            sample_g: QC_SAMPLE_G,
-            end_points_ph: Vec::new(),
+            titrant: method.titrant_id(ph).to_owned(),
+            normality: method.normality,
+            sample_g: method.sample_g,
+            end_points_ph: method.end_points_ph.clone(),
         }
     }
 }
@@ -132,7 +122,7 @@ pub struct SheetRequest<'a> {
     pub batch: Option<BatchSize>,
     /// The date printed on the sheet, as the caller writes it.
     pub date: String,
-    /// The QC titration; `None` takes [`QcPlan::usual_for`] the product's pH.
+    /// The QC titration; `None` takes the project's method ([`QcPlan::from_method`]).
     pub qc: Option<QcPlan>,
 }
 
@@ -388,9 +378,12 @@ pub fn batch_sheet(req: &SheetRequest<'_>) -> Result<BatchSheet, ExportError> {
         settings.species_system.as_deref(),
     );
 
-    let mut plan = req.qc.clone().unwrap_or_else(|| QcPlan::usual_for(ph));
+    let mut plan = req
+        .qc
+        .clone()
+        .unwrap_or_else(|| QcPlan::from_method(&settings.qc, ph));
     if plan.titrant.trim().is_empty() {
-        plan.titrant = QcPlan::usual_for(ph).titrant;
+        plan.titrant = settings.qc.titrant_id(ph).to_owned();
     }
     let adjusted = match &dose {
         DoseInstruction::Add { amount_g, .. } if *amount_g > 0.0 => {
