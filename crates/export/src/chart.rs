@@ -211,6 +211,39 @@ impl TitrationChart {
     }
 }
 
+/// One curve of a [`LineChart`].
+#[derive(Debug, Clone, PartialEq)]
+pub struct Series {
+    /// Legend entry, also the CSV column's name.
+    pub name: String,
+    /// (x, y) points in order.
+    pub points: Vec<(f64, f64)>,
+    /// Its colour.
+    pub color: Rgb,
+    /// Dashed rather than solid.
+    pub dashed: bool,
+}
+
+/// Any other chart of the window: named curves against one x axis, with an optional marked x
+/// (the current recipe).
+#[derive(Debug, Clone, PartialEq)]
+pub struct LineChart {
+    /// The caption.
+    pub title: String,
+    /// The x axis, with its unit.
+    pub x_label: String,
+    /// The y axis, with its unit.
+    pub y_label: String,
+    /// The CSV column of x: a short name with its unit (`dilution`, `temperature_c`).
+    pub x_column: String,
+    /// The curves.
+    pub series: Vec<Series>,
+    /// An x marked with a vertical line, and its legend entry.
+    pub marker: Option<(f64, String)>,
+    /// Whether the x axis is drawn on a log scale (x must then be above 0).
+    pub log_x: bool,
+}
+
 /// One of the charts, to draw or to write as CSV.
 #[derive(Debug, Clone, Copy)]
 pub enum Chart<'a> {
@@ -222,6 +255,8 @@ pub enum Chart<'a> {
     Species(&'a SpeciesChart),
     /// pH against mL of titrant.
     Titration(&'a TitrationChart),
+    /// Any other chart: named curves against one axis.
+    Lines(&'a LineChart),
 }
 
 impl Chart<'_> {
@@ -232,6 +267,7 @@ impl Chart<'_> {
             Self::BufferCapacity(_) => "buffer-capacity",
             Self::Species(_) => "species",
             Self::Titration(_) => "qc-titration",
+            Self::Lines(_) => "chart",
         }
     }
 }

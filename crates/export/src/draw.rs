@@ -10,8 +10,8 @@ use plotters::style::FontStyle;
 
 use crate::ExportError;
 use crate::chart::{
-    BUFFER, CURRENT, Chart, DoseChart, EQUIVALENCE, PH_LINE, Rgb, SPECIES, SpeciesChart, TARGET,
-    TitrationChart,
+    BUFFER, CURRENT, Chart, DoseChart, EQUIVALENCE, LineChart, PH_LINE, Rgb, SPECIES, SpeciesChart,
+    TARGET, TitrationChart,
 };
 
 /// The font family every chart's text is set in: `sans-serif`, so an SVG shows the viewer's
@@ -153,6 +153,7 @@ fn draw<DB: DrawingBackend>(
         Chart::BufferCapacity(c) => buffer(root, c, text),
         Chart::Species(c) => species(root, c, text),
         Chart::Titration(c) => titration(root, c, text),
+        Chart::Lines(c) => lines(root, c, text),
     }
 }
 
@@ -516,4 +517,88 @@ fn titration<DB: DrawingBackend>(
             SeriesLabelPosition::LowerRight
         },
     )
+}
+
+fn lines<DB: DrawingBackend>(
+    root: &DrawingArea<DB, Shift>,
+    c: &LineChart,
+    text: Label<'_>,
+) -> Result<(), ExportError> {
+    let xs = || c.series.iter().flat_map(|s| s.points.iter().map(|p| p.0));
+    let (x_lo, x_hi) =
+        finite_range(xs().chain(c.marker.iter().map(|m| m.0))).ok_or(empty("chart"))?;
+    let (y_lo, y_hi) = finite_range(c.series.iter().flat_map(|s| s.points.iter().map(|p| p.1)))
+        .ok_or(empty("chart"))?;
+    let (y_lo, y_hi) = padded(y_lo, y_hi, 0.06);
+    let x_hi = if x_hi > x_lo { x_hi } else { x_lo + 1.0 };
+    let mut builder = ChartBuilder::on(root);
+    builder
+        .margin(14)
+        .margin_right(30)
+        .caption(text(&c.title), (FAMILY, CAPTION))
+        .x_label_area_size(46)
+        .y_label_area_size(54);
+    let x_desc = text(&c.x_label);
+    let y_desc = text(&c.y_label);
+    // One generic body for the linear and the log x axis.
+    macro_rules! body {
+        ($ch:expr) => {{
+            let mut ch = $ch;
+            ch.configure_mesh()
+                .x_desc(x_desc.as_str())
+                .y_desc(y_desc.as_str())
+                .axis_desc_style((FAMILY, AXIS))
+                .label_style((FAMILY, TICKS))
+                .x_label_formatter(&tick)
+                .y_label_formatter(&tick)
+                .light_line_style(TRANSPARENT)
+                .bold_line_style(RGBColor(225, 225, 225))
+                .draw()
+                .map_err(draw_error)?;
+            for s in &c.series {
+                let style = color(s.color).stroke_width(2);
+                let points = s
+                    .points
+                    .iter()
+                    .copied()
+                    .filter(|p| p.0.is_finite() && p.1.is_finite());
+                let drawn = if s.dashed {
+                    ch.draw_series(DashedLineSeries::new(points, 7, 5, style))
+                        .map_err(draw_error)?
+                } else {
+                    ch.draw_series(LineSeries::new(points, style))
+                        .map_err(draw_error)?
+                };
+                drawn
+                    .label(text(&s.name))
+                    .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], style));
+            }
+            if let Some((x, name)) = &c.marker {
+                let now = color(CURRENT).stroke_width(2);
+                ch.draw_series(LineSeries::new([(*x, y_lo), (*x, y_hi)], now))
+                    .map_err(draw_error)?
+                    .label(text(name))
+                    .legend(move |(x, y)| {
+                        PathElement::new(vec![(x + 10, y - 8), (x + 10, y + 8)], now)
+                    });
+            }
+            legend(&mut ch, SeriesLabelPosition::UpperRight)
+        }};
+    }
+    if c.log_x {
+        if x_lo <= 0.0 {
+            return Err(ExportError::Draw("a log axis needs every x above 0".into()));
+        }
+        body!(
+            builder
+                .build_cartesian_2d((x_lo..x_hi).log_scale(), y_lo..y_hi)
+                .map_err(draw_error)?
+        )
+    } else {
+        body!(
+            builder
+                .build_cartesian_2d(x_lo..x_hi, y_lo..y_hi)
+                .map_err(draw_error)?
+        )
+    }
 }

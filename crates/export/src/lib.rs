@@ -19,7 +19,7 @@ pub mod table;
 
 use thiserror::Error;
 
-pub use chart::{Chart, DoseChart, SpeciesChart, TargetBand, TitrationChart};
+pub use chart::{Chart, DoseChart, LineChart, Series, SpeciesChart, TargetBand, TitrationChart};
 pub use draw::{Size, png, svg};
 pub use html::{batch_sheet_html, escape};
 pub use sheet::{BatchSheet, BatchSize, MassUnit, QcPlan, SheetRequest, batch_sheet};

@@ -508,3 +508,34 @@ pub fn end_point_name(kind: Option<TitrantKind>, e: &EndPoint) -> String {
         _ => "End point".into(),
     }
 }
+
+/// The UTC date of a Unix time as YYYY-MM-DD (the proleptic Gregorian calendar, by era
+/// arithmetic over 400-year cycles of 146 097 days).
+pub fn iso_date(unix_secs: u64) -> String {
+    let days = (unix_secs / 86_400) as i64;
+    let z = days + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z.rem_euclid(146_097);
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let d = doy - (153 * mp + 2) / 5 + 1;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 };
+    let y = yoe + era * 400 + i64::from(m <= 2);
+    format!("{y:04}-{m:02}-{d:02}")
+}
+
+#[cfg(test)]
+mod date_tests {
+    use super::iso_date;
+
+    #[test]
+    fn unix_times_become_dates() {
+        // 1970-01-01 is day 0; 2000-03-01 is day 11 017; 2024-02-29 is day 19 782 (counted by
+        // hand from 365-day years and the Gregorian leap rule).
+        assert_eq!(iso_date(0), "1970-01-01");
+        assert_eq!(iso_date(11_017 * 86_400 + 3600), "2000-03-01");
+        assert_eq!(iso_date(19_782 * 86_400), "2024-02-29");
+        assert_eq!(iso_date(19_782 * 86_400 - 1), "2024-02-28");
+    }
+}

@@ -2,7 +2,7 @@
 //! row per point, numbers in full precision.
 
 use crate::ExportError;
-use crate::chart::{Chart, DoseChart, SpeciesChart, TitrationChart};
+use crate::chart::{Chart, DoseChart, LineChart, SpeciesChart, TitrationChart};
 
 /// Header of the dose curve's CSV.
 pub const DOSE_HEADER: [&str; 3] = ["dose_g", "ph", "buffer_capacity_mol_per_kg_water_per_ph"];
@@ -21,6 +21,7 @@ pub fn csv(chart: Chart<'_>) -> Result<String, ExportError> {
         Chart::BufferCapacity(c) => buffer(&mut w, c)?,
         Chart::Species(c) => species(&mut w, c)?,
         Chart::Titration(c) => titration(&mut w, c)?,
+        Chart::Lines(c) => lines(&mut w, c)?,
     }
     let bytes = w
         .into_inner()
@@ -77,6 +78,40 @@ fn titration(w: &mut Writer, c: &TitrationChart) -> Result<(), ExportError> {
     for p in &c.points {
         w.write_record([p.ml.to_string(), p.ph.to_string()])
             .map_err(csv_error)?;
+    }
+    Ok(())
+}
+
+/// Curves sharing their x values: one x column and one column per curve; otherwise one row per
+/// point as `series,x,y`.
+fn lines(w: &mut Writer, c: &LineChart) -> Result<(), ExportError> {
+    let shared = c.series.windows(2).all(|pair| {
+        pair[0].points.len() == pair[1].points.len()
+            && pair[0]
+                .points
+                .iter()
+                .zip(&pair[1].points)
+                .all(|(a, b)| a.0.to_bits() == b.0.to_bits())
+    });
+    if shared {
+        let mut header = vec![c.x_column.clone()];
+        header.extend(c.series.iter().map(|s| s.name.clone()));
+        w.write_record(&header).map_err(csv_error)?;
+        let n = c.series.first().map_or(0, |s| s.points.len());
+        for i in 0..n {
+            let mut row = vec![c.series[0].points[i].0.to_string()];
+            row.extend(c.series.iter().map(|s| s.points[i].1.to_string()));
+            w.write_record(&row).map_err(csv_error)?;
+        }
+    } else {
+        w.write_record(["series", c.x_column.as_str(), "y"])
+            .map_err(csv_error)?;
+        for s in &c.series {
+            for p in &s.points {
+                w.write_record([s.name.clone(), p.0.to_string(), p.1.to_string()])
+                    .map_err(csv_error)?;
+            }
+        }
     }
     Ok(())
 }

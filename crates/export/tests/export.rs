@@ -396,3 +396,62 @@ fn the_dose_instruction_is_for_the_batch_as_scaled() {
     // Relative 1e-6: the root solve's own tolerance is far tighter (curve.rs, 1e-10 in pH).
     assert!((two / one - 2.0).abs() < 1e-6, "{one} {two}");
 }
+
+/// pH against dilution of an invented product on a log axis, two curves sharing their x.
+fn dilution_chart() -> saltwise_export::LineChart {
+    let xs: Vec<f64> = (0..=30).map(|i| 10f64.powf(f64::from(i) / 10.0)).collect();
+    let series = |name: &str, start: f64, dashed: bool| saltwise_export::Series {
+        name: name.into(),
+        points: xs.iter().map(|&x| (x, start - 0.5 * x.log10())).collect(),
+        color: saltwise_export::chart::PH_LINE,
+        dashed,
+    };
+    saltwise_export::LineChart {
+        title: "pH against dilution".into(),
+        x_label: "Dilution".into(),
+        y_label: "pH".into(),
+        x_column: "dilution".into(),
+        series: vec![series("Main", 11.0, false), series("Lean", 10.5, true)],
+        marker: Some((1.0, "Product as made".into())),
+        log_x: true,
+    }
+}
+
+#[test]
+fn a_line_chart_draws_as_svg_and_png_and_reads_back_from_csv() {
+    let chart = dilution_chart();
+    let (shapes, texts) = parse_svg(&svg(Chart::Lines(&chart), Size::DEFAULT).expect("svg"));
+    assert!(shapes > 10, "{shapes}");
+    for label in [
+        "pH against dilution",
+        "Dilution",
+        "Main",
+        "Lean",
+        "Product as made",
+    ] {
+        assert!(texts.contains(label), "{label}: {texts}");
+    }
+    let bytes = png(Chart::Lines(&chart), Size::DEFAULT).expect("png");
+    let reader = ::png::Decoder::new(std::io::Cursor::new(bytes))
+        .read_info()
+        .expect("PNG header");
+    assert_eq!(reader.info().width, Size::DEFAULT.width);
+    // Shared x: one x column, one column per curve, exact numbers.
+    let (h, rows) = read_csv(&csv(Chart::Lines(&chart)).expect("csv"));
+    assert_eq!(h, vec!["dilution", "Main", "Lean"]);
+    assert_eq!(rows.len(), 31);
+    assert_eq!(rows[10][0], chart.series[0].points[10].0);
+    assert_eq!(rows[10][2], chart.series[1].points[10].1);
+    // A log axis cannot start at 0.
+    let mut bad = chart.clone();
+    bad.series[0].points[0].0 = 0.0;
+    assert!(matches!(
+        svg(Chart::Lines(&bad), Size::DEFAULT),
+        Err(ExportError::Draw(_))
+    ));
+    // Curves with their own x go one row per point.
+    bad.series[0].points[0].0 = 0.5;
+    bad.log_x = false;
+    let text = csv(Chart::Lines(&bad)).expect("csv");
+    assert!(text.starts_with("series,dilution,y\n"), "{text}");
+}
