@@ -248,6 +248,7 @@ impl Workbench {
                 &self.messages,
                 self.autosave.offer(),
                 &self.config.recent_files,
+                &mut self.panels.sheet_batch_kg,
                 &mut commands,
             );
         });

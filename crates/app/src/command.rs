@@ -13,6 +13,7 @@ use saltwise_chem::{RecipeLine, Unit};
 use crate::app::Workbench;
 use crate::document::file_name;
 use crate::engine::Engine;
+use crate::exports::{self, Export};
 use crate::messages::{Notice, Pending};
 pub use crate::variant_edit::VariantEdit;
 
@@ -57,6 +58,10 @@ pub enum Command {
     Edit(RecipeEdit),
     /// Change the variants or their prices in one undoable step.
     Variant(VariantEdit),
+    /// Choose a file and write a chart, its curves or the batch sheet to it.
+    Export(Export),
+    /// Write a chart, its curves or the batch sheet to the given file.
+    ExportToPath(Export, PathBuf),
 }
 
 /// A discrete change to the recipe: one undo step each. Drags and typing edit the project
@@ -163,6 +168,49 @@ impl Workbench {
             Command::DismissNotice => self.messages.dismiss_notice(),
             Command::Edit(edit) => self.edit(edit),
             Command::Variant(edit) => self.variant_edit(edit),
+            Command::Export(export) => {
+                let mut dialog = rfd::FileDialog::new()
+                    .add_filter(export.extension().to_uppercase(), &[export.extension()])
+                    .set_file_name(export.file_name(self.doc.project()));
+                if let Some(dir) = self.dialog_dir() {
+                    dialog = dialog.set_directory(dir);
+                }
+                if let Some(path) = dialog.save_file() {
+                    self.export_to(export, &path);
+                }
+            }
+            Command::ExportToPath(export, path) => self.export_to(export, &path),
+        }
+    }
+
+    /// Writes an export atomically; says where, or why not (the file there is left as it was).
+    fn export_to(&mut self, export: Export, path: &Path) {
+        let path = if path.extension().is_none() {
+            path.with_extension(export.extension())
+        } else {
+            path.to_path_buf()
+        };
+        let date = {
+            let secs = std::time::SystemTime::now()
+                .duration_since(std::time::UNIX_EPOCH)
+                .map_or(0, |d| d.as_secs());
+            saltwise_export::sheet::iso_date(secs)
+        };
+        let written =
+            exports::build(&self.engine, self.doc.project(), export, date).and_then(|bytes| {
+                saltwise_chem::project::write_atomic(&path, &bytes, false)
+                    .map_err(|e| format!("{}: {e}", path.display()))
+            });
+        match written {
+            Ok(()) => self.messages.status(
+                &format!("Exported the {} to {}.", export.words(), path.display()),
+                false,
+            ),
+            Err(reason) => self.messages.notify(Notice {
+                headline: format!("Could not export the {}", export.words()),
+                reason,
+                consequence: "Nothing was written; a file already there is as it was.".into(),
+            }),
         }
     }
 

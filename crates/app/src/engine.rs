@@ -309,7 +309,8 @@ impl Engine {
         self.solves
     }
 
-    fn constants(&self) -> Option<&Constants> {
+    /// The constants at the project's conditions, once set up.
+    pub fn constants(&self) -> Option<&Constants> {
         self.constants.as_ref().and_then(|(_, c)| c.as_ref().ok())
     }
 

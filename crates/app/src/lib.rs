@@ -17,6 +17,7 @@ mod command;
 mod config;
 mod document;
 mod engine;
+pub mod exports;
 mod history;
 mod messages;
 mod recovery;

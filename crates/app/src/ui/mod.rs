@@ -40,6 +40,8 @@ pub struct PanelState {
     pub design: design::DesignForm,
     /// The QC end points as typed (pH values separated by commas).
     pub qc_end_points: Option<String>,
+    /// Batch size of an exported batch sheet, kg (0: the recipe's own).
+    pub sheet_batch_kg: f64,
 }
 
 // One colour, one meaning. The colours are from the Okabe–Ito set, chosen to stay apart for

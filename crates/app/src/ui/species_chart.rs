@@ -210,8 +210,8 @@ fn metal_words(library: &Library, id: &str) -> String {
     )
 }
 
-/// What a part of a metal's distribution is called on the chart.
-fn part_words(library: &Library, metal: &str, part: &str) -> String {
+/// What a part of a metal's distribution is called on the chart and in exports.
+pub fn part_words(library: &Library, metal: &str, part: &str) -> String {
     match part {
         FREE => match library.ion_index(metal) {
             Some(i) => {

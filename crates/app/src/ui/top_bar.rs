@@ -8,6 +8,7 @@ use egui::{Button, Key, KeyboardShortcut, Modifiers, RichText, Ui};
 use crate::autosave::Offer;
 use crate::command::{Command, Resolution};
 use crate::document::Document;
+use crate::exports::{ChartKind, Export, Format};
 use crate::messages::Messages;
 
 /// Draws the top bar; the project name is typed straight into the document.
@@ -17,6 +18,7 @@ pub fn top_bar_ui(
     messages: &Messages,
     offer: Option<&Offer>,
     recent: &[PathBuf],
+    sheet_batch_kg: &mut f64,
     commands: &mut Vec<Command>,
 ) {
     let ctx = ui.ctx().clone();
@@ -58,6 +60,8 @@ pub fn top_bar_ui(
             if item(ui, "Save as…", Some(shortcut(shift, Key::S))) {
                 commands.push(Command::SaveAs);
             }
+            ui.separator();
+            ui.menu_button("Export", |ui| export_menu(ui, sheet_batch_kg, commands));
             ui.separator();
             if item(ui, "Quit", Some(shortcut(cmd, Key::Q))) {
                 commands.push(Command::Quit);
@@ -175,6 +179,40 @@ pub fn top_bar_ui(
             text.color(super::ERROR)
         } else {
             text.weak()
+        });
+    }
+}
+
+/// The Export part of the File menu: the batch sheet for a batch size, then every chart.
+fn export_menu(ui: &mut Ui, sheet_batch_kg: &mut f64, commands: &mut Vec<Command>) {
+    if ui
+        .button("Batch sheet (HTML)…")
+        .on_hover_text("One page to print or file: the recipe scaled to the batch, predicted pH, dose, QC titration, charts and every caution")
+        .clicked()
+    {
+        let batch_kg = (*sheet_batch_kg > 0.0).then_some(*sheet_batch_kg);
+        commands.push(Command::Export(Export::BatchSheet { batch_kg }));
+    }
+    ui.horizontal(|ui| {
+        ui.label("for a batch of");
+        let r = ui.add(
+            egui::DragValue::new(sheet_batch_kg)
+                .range(0.0..=100_000.0)
+                .speed(1.0)
+                .max_decimals(3),
+        );
+        super::name_drag(r, *sheet_batch_kg, "Sheet batch size")
+            .on_hover_text("kg; 0 keeps the recipe's own batch size");
+        ui.label("kg (0: the recipe's own)");
+    });
+    ui.separator();
+    for chart in ChartKind::ALL {
+        ui.menu_button(chart.words(), |ui| {
+            for format in Format::ALL {
+                if ui.button(format.words()).clicked() {
+                    commands.push(Command::Export(Export::Chart(chart, format)));
+                }
+            }
         });
     }
 }
