@@ -35,6 +35,8 @@ pub enum Command {
     Compare(crate::compare::CompareArgs),
     /// A QC titration of a sample of product predicted: mL of titrant to each end point, the curve, the titration factor.
     Titrate(crate::titrate::TitrateArgs),
+    /// A measured titration fitted: assays, an unknown acid or base, a meter offset, with standard errors.
+    Fit(crate::fit::FitArgs),
 }
 
 /// The anion of the water's hardness.

@@ -5,11 +5,13 @@
 mod args;
 mod compare;
 mod design;
+mod fit;
 mod input;
 mod output;
 mod sweep;
 mod titrate;
 mod tolerance;
+mod user_lib;
 
 use std::process::ExitCode;
 
@@ -38,5 +40,6 @@ fn run(cli: args::Cli) -> anyhow::Result<ExitCode> {
         args::Command::Design(a) => design::run(&a),
         args::Command::Compare(a) => compare::run(&a),
         args::Command::Titrate(a) => titrate::run(&a),
+        args::Command::Fit(a) => fit::run(&a),
     }
 }
