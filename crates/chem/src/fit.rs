@@ -93,7 +93,9 @@ pub enum FitError {
         message: String,
     },
     /// The same unknown twice, or an unknown acid and an unknown base together.
-    #[error("{what} is asked for twice; each unknown is fitted once (one unknown acid or base per fit)")]
+    #[error(
+        "{what} is asked for twice; each unknown is fitted once (one unknown acid or base per fit)"
+    )]
     Twice {
         /// The unknown.
         what: String,
@@ -162,7 +164,9 @@ impl Unknown {
                 bad("give the starting pKa after the colon, e.g. unknown-acid:4.8")
             })?;
             let v = limits::parse_number(a).ok_or_else(|| {
-                bad(&format!("'{a}' is not a number; give a starting pKa such as 4.8"))
+                bad(&format!(
+                    "'{a}' is not a number; give a starting pKa such as 4.8"
+                ))
             })?;
             Ok(limits::PKA.check_as(v, "starting pKa")?)
         };
@@ -373,7 +377,9 @@ impl Model<'_> {
                         let line = batch.lines[i].clone();
                         let e = &self.library.entries()[line.entry];
                         let extra_mol = line.substance_mol * (v - 1.0);
-                        batch.totals.add_releases(self.library, line.entry, extra_mol);
+                        batch
+                            .totals
+                            .add_releases(self.library, line.entry, extra_mol);
                         let water_g = -line.mass_g * e.ingredient.assay * (v - 1.0)
                             + extra_mol * e.water_mol_per_mol * WATER_MOLAR_MASS_G_PER_MOL;
                         batch.totals.water_kg += water_g * 1e-3;
@@ -417,7 +423,14 @@ impl Model<'_> {
                 constants = &constants_owned;
             }
         }
-        let t = Titration::new(self.library, constants, &batch, self.sample_g, &self.titrant).ok()?;
+        let t = Titration::new(
+            self.library,
+            constants,
+            &batch,
+            self.sample_g,
+            &self.titrant,
+        )
+        .ok()?;
         let out: Vec<f64> = ml.iter().map(|&v| t.ph_at(v) + offset).collect();
         out.iter().all(|p| p.is_finite()).then_some(out)
     }
@@ -626,7 +639,8 @@ fn prepare(
                         held,
                     });
                 };
-                let nominal_percent = lib.entries()[product.lines[first].entry].ingredient.assay * 100.0;
+                let nominal_percent =
+                    lib.entries()[product.lines[first].entry].ingredient.assay * 100.0;
                 slots.push(Slot::Assay {
                     lines,
                     nominal_percent,
@@ -752,7 +766,11 @@ pub fn fit(
     };
     let start_rms_ph = (ssr(&r_start) / n as f64).sqrt();
     // The amount of an unknown starts where a coarse scan of both signs fits best.
-    if let Some(a) = p.slots.iter().position(|s| matches!(s, Slot::Amount { .. })) {
+    if let Some(a) = p
+        .slots
+        .iter()
+        .position(|s| matches!(s, Slot::Amount { .. }))
+    {
         let mut best = (ssr(&r_start), 0.0);
         for mag in [0.1, 0.3, 1.0, 3.0, 10.0, 30.0, 100.0, 300.0, 1000.0, 3000.0] {
             for sign in [1.0, -1.0] {
@@ -786,14 +804,21 @@ pub fn fit(
         .with_patience(200)
         .minimize(problem);
     let converged = report.termination.was_successful()
-        || matches!(report.termination, TerminationReason::NoImprovementPossible(_));
+        || matches!(
+            report.termination,
+            TerminationReason::NoImprovementPossible(_)
+        );
     let termination = termination_words(&report.termination);
     let x: Vec<f64> = solved.x.iter().copied().collect();
     let r = model.residuals_or_penalty(&x);
     let j = model.jacobian_at(&x, &r);
     let ssr_fit = ssr(&r);
     let dof = n - k;
-    let s2 = if dof > 0 { ssr_fit / dof as f64 } else { f64::NAN };
+    let s2 = if dof > 0 {
+        ssr_fit / dof as f64
+    } else {
+        f64::NAN
+    };
 
     // Column scales: JᵀJ is inverted scaled to unit columns, so units do not matter.
     let norms: Vec<f64> = (0..k).map(|c| j.column(c).norm()).collect();
@@ -819,7 +844,7 @@ pub fn fit(
     let svd = a.clone().svd(true, true);
     let smax = svd.singular_values.max();
     let smin = svd.singular_values.min();
-    let singular = !(smin > SINGULAR_RATIO * smax);
+    let singular = !smin.is_finite() || smin <= SINGULAR_RATIO * smax;
     let inverse = svd
         .pseudo_inverse(SINGULAR_RATIO * smax.max(f64::MIN_POSITIVE))
         .unwrap_or_else(|_| DMatrix::from_element(k, k, f64::NAN));
@@ -858,13 +883,19 @@ pub fn fit(
         ));
     }
     if !converged {
-        warnings.push(format!("the fit did not converge ({termination}); the values are where it stopped"));
+        warnings.push(format!(
+            "the fit did not converge ({termination}); the values are where it stopped"
+        ));
     }
     let temps: Vec<f64> = titration.points.iter().filter_map(|q| q.temp_c).collect();
     if let Some(far) = temps
         .iter()
         .copied()
-        .max_by(|a, b| (a - conditions.temp_c).abs().total_cmp(&(b - conditions.temp_c).abs()))
+        .max_by(|a, b| {
+            (a - conditions.temp_c)
+                .abs()
+                .total_cmp(&(b - conditions.temp_c).abs())
+        })
         .filter(|t| (t - conditions.temp_c).abs() > TEMPERATURE_WARNING_C)
     {
         warnings.push(format!(
@@ -897,7 +928,11 @@ pub fn fit(
     let fitted_ph = model
         .predict_at(&x, &model.ml)
         .unwrap_or_else(|| vec![f64::NAN; n]);
-    let start_ph: Vec<f64> = r_start.iter().zip(&model.measured).map(|(r, y)| r + y).collect();
+    let start_ph: Vec<f64> = r_start
+        .iter()
+        .zip(&model.measured)
+        .map(|(r, y)| r + y)
+        .collect();
     let residuals = titration
         .points
         .iter()

@@ -120,7 +120,9 @@ pub enum MeasuredError {
         cell: String,
     },
     /// A pH outside what a pH meter reads.
-    #[error("line {line}, column {column}: pH {ph} is not allowed: a pH reading is from {PH_MIN} to {PH_MAX}")]
+    #[error(
+        "line {line}, column {column}: pH {ph} is not allowed: a pH reading is from {PH_MIN} to {PH_MAX}"
+    )]
     PhOutOfRange {
         /// Line, from 1.
         line: usize,
@@ -130,7 +132,9 @@ pub enum MeasuredError {
         ph: f64,
     },
     /// A negative or too large titrant quantity.
-    #[error("line {line}, column {column}: titrant added {value} is not allowed: it is from 0 to {MAX_TITRANT} (mL or g)")]
+    #[error(
+        "line {line}, column {column}: titrant added {value} is not allowed: it is from 0 to {MAX_TITRANT} (mL or g)"
+    )]
     TitrantOutOfRange {
         /// Line, from 1.
         line: usize,
@@ -165,7 +169,9 @@ pub enum MeasuredError {
         separator: &'static str,
     },
     /// A header that cannot be matched to the columns.
-    #[error("line {line}: the header '{header}' does not name one titrant column and one pH column; name the columns e.g. `mL,pH` or `g;pH;temp`, or leave the header out")]
+    #[error(
+        "line {line}: the header '{header}' does not name one titrant column and one pH column; name the columns e.g. `mL,pH` or `g;pH;temp`, or leave the header out"
+    )]
     Header {
         /// Line, from 1.
         line: usize,
@@ -173,7 +179,9 @@ pub enum MeasuredError {
         header: String,
     },
     /// More readings than one titration holds.
-    #[error("line {line}: more than {MAX_POINTS} readings; one titration holds at most {MAX_POINTS}")]
+    #[error(
+        "line {line}: more than {MAX_POINTS} readings; one titration holds at most {MAX_POINTS}"
+    )]
     TooMany {
         /// Line, from 1.
         line: usize,

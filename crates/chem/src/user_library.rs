@@ -18,7 +18,7 @@ pub const USER_LIBRARY_VERSION: u32 = 1;
 pub const USER_LIBRARY_FILE: &str = "user-library.ron";
 
 /// Where a saved entry came from.
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[derive(Debug, Clone, Default, PartialEq, Serialize, Deserialize)]
 #[serde(default)]
 pub struct Provenance {
     /// The id of the ingredient (and system) saved.
@@ -31,18 +31,6 @@ pub struct Provenance {
     pub fitted: String,
     /// What was titrated with what (sample, titrant, normality, readings).
     pub titration: String,
-}
-
-impl Default for Provenance {
-    fn default() -> Self {
-        Self {
-            id: String::new(),
-            data_file: String::new(),
-            date: String::new(),
-            fitted: String::new(),
-            titration: String::new(),
-        }
-    }
 }
 
 /// The user library file: data as in `assets/library.ron`, and the provenance of each entry.
@@ -74,7 +62,9 @@ pub enum UserLibraryError {
     #[error(transparent)]
     Library(#[from] LibraryError),
     /// A file of a newer format.
-    #[error("{origin}: user library format {found} is newer than this build reads ({USER_LIBRARY_VERSION})")]
+    #[error(
+        "{origin}: user library format {found} is newer than this build reads ({USER_LIBRARY_VERSION})"
+    )]
     Version {
         /// Where the text came from.
         origin: String,
@@ -90,7 +80,9 @@ pub enum UserLibraryError {
         place: &'static str,
     },
     /// A name that cannot be an id.
-    #[error("'{name}' cannot name a library entry: use lower-case letters, digits and '_' (e.g. lot_24_117_acid)")]
+    #[error(
+        "'{name}' cannot name a library entry: use lower-case letters, digits and '_' (e.g. lot_24_117_acid)"
+    )]
     BadName {
         /// The name as given.
         name: String,
@@ -242,9 +234,9 @@ pub fn fitted_entry(
             .check_as(pka_value, "fitted pKa")
             .map_err(|e| UserLibraryError::Nothing(format!("not saved: {e}")))?;
         // The amount's sign says which form is there: positive acid HA, negative base B.
-        let signed = fit.parameter(&amount).map_or(0.0, |p| {
-            if as_base { -p.value } else { p.value }
-        });
+        let signed =
+            fit.parameter(&amount)
+                .map_or(0.0, |p| if as_base { -p.value } else { p.value });
         let base_form = signed < 0.0;
         let system = System {
             id: id.clone(),

@@ -88,7 +88,11 @@ fn assert_within_two_se(f: &fit::Fit, name: &str, truth: f64) {
         "{name}: fitted {} ± {se}, true {truth}",
         p.value
     );
-    assert!(p.determined, "{name} should be determined: {:?}", f.warnings);
+    assert!(
+        p.determined,
+        "{name} should be determined: {:?}",
+        f.warnings
+    );
 }
 
 /// An invented product: "Kestrel Oven Degreaser", 2 % of 50 % lye in water.
@@ -118,7 +122,11 @@ fn assay_and_meter_offset_recovered_from_a_caustic_titration() {
     assert_within_two_se(&f, "meter-offset", truth[1]);
     // The RMS residual is the noise put in (σ = 0.01), within a factor 1.5 for 33 readings
     // (chi-square spread, common practice, no source).
-    assert!(f.rms_ph > SIGMA_PH / 1.5 && f.rms_ph < SIGMA_PH * 1.5, "{}", f.rms_ph);
+    assert!(
+        f.rms_ph > SIGMA_PH / 1.5 && f.rms_ph < SIGMA_PH * 1.5,
+        "{}",
+        f.rms_ph
+    );
     assert!(f.start_rms_ph > f.rms_ph);
     assert_eq!(f.residuals.len(), 33);
     assert_eq!(f.degrees_of_freedom, 31);
@@ -162,7 +170,10 @@ fn unknown_acid_amount_and_pka_recovered() {
 
 #[test]
 fn unknown_base_recovered_with_a_meter_offset() {
-    let unknowns = [Unknown::UnknownBase { pka_start: 9.0 }, Unknown::MeterOffset];
+    let unknowns = [
+        Unknown::UnknownBase { pka_start: 9.0 },
+        Unknown::MeterOffset,
+    ];
     // True values chosen for the test: 15 mmol/kg of a base whose acid has pKa 9.5 (an amine),
     // the meter 0.03 pH low; 40 g titrated with 0.1 N HCl, 6 mL to equivalence.
     let truth = [15.0, 9.5, -0.03];
@@ -231,7 +242,11 @@ fn two_grades_of_the_same_alkali_cannot_be_told_apart() {
         5,
     );
     let f = fit::fit(&lib(), Conditions::default(), &recipe, &t, &unknowns).expect("fit");
-    assert!(f.parameters.iter().all(|p| !p.determined), "{:?}", f.parameters);
+    assert!(
+        f.parameters.iter().all(|p| !p.determined),
+        "{:?}",
+        f.parameters
+    );
     assert!(
         f.warnings
             .iter()
@@ -263,7 +278,10 @@ fn refusals() {
     // No readings.
     let mut empty = t.clone();
     empty.points.clear();
-    assert_eq!(fit::fit(&l, c, &r, &empty, &assay), Err(FitError::NoReadings));
+    assert_eq!(
+        fit::fit(&l, c, &r, &empty, &assay),
+        Err(FitError::NoReadings)
+    );
     // A titrant that is not a strong acid or base.
     t.titrant = "sodium_chloride".into();
     assert!(matches!(
@@ -313,9 +331,19 @@ fn unknowns_parse() {
         Ok(Unknown::UnknownBase { pka_start: 9.2 })
     );
     assert_eq!(Unknown::parse("meter-offset"), Ok(Unknown::MeterOffset));
-    for bad in ["assay:", "unknown-acid", "unknown-acid:x", "unknown-acid:40", "slope", "meter-offset:1"] {
+    for bad in [
+        "assay:",
+        "unknown-acid",
+        "unknown-acid:x",
+        "unknown-acid:40",
+        "slope",
+        "meter-offset:1",
+    ] {
         assert!(
-            matches!(Unknown::parse(bad), Err(FitError::BadUnknown { .. } | FitError::Limit(_))),
+            matches!(
+                Unknown::parse(bad),
+                Err(FitError::BadUnknown { .. } | FitError::Limit(_))
+            ),
             "{bad}"
         );
     }
@@ -335,8 +363,14 @@ fn fitted_unknown_acid_and_assay_saved_to_the_user_library() {
     let f = fit::fit(&l, Conditions::default(), &rinse_base(), &t, &unknowns).expect("fit");
     // No formula: refused with the reason.
     assert!(fitted_entry(&l, &f, "lot_acid", None, "x").is_err());
-    let entry = fitted_entry(&l, &f, "lot_acid", Some("C2H4O2"), "data synthetic.csv, 2025-01-01")
-        .expect("entry");
+    let entry = fitted_entry(
+        &l,
+        &f,
+        "lot_acid",
+        Some("C2H4O2"),
+        "data synthetic.csv, 2025-01-01",
+    )
+    .expect("entry");
     let mut user = UserLibrary::default();
     let prov = Provenance {
         id: "lot_acid".into(),

@@ -48,13 +48,19 @@ fn header_names_columns_in_any_order_and_windows_files() {
     let text = "\u{feff}# bench 2, lot 24-117\r\npH,mL\r\n12.1,0\r\n\r\n11.85,5.5\r\n7.25,10\r\n";
     assert_eq!(pairs(text), EXPECTED);
     // Quoted cells and a trailing separator, as spreadsheets write them.
-    assert_eq!(pairs("\"g\";\"pH\";\n\"0\";\"12,1\";\n5,5;11,85;\n10;7,25;\n"), EXPECTED);
+    assert_eq!(
+        pairs("\"g\";\"pH\";\n\"0\";\"12,1\";\n5,5;11,85;\n10;7,25;\n"),
+        EXPECTED
+    );
 }
 
 #[test]
 fn each_refusal_names_its_line_and_column() {
     assert_eq!(parse_readings(""), Err(MeasuredError::Empty));
-    assert_eq!(parse_readings("mL,pH\n\n# nothing yet\n"), Err(MeasuredError::Empty));
+    assert_eq!(
+        parse_readings("mL,pH\n\n# nothing yet\n"),
+        Err(MeasuredError::Empty)
+    );
     let e = parse_readings("mL,pH\n0,12.1\n5.5,eleven\n").expect_err("refused");
     assert_eq!(
         e,
@@ -65,14 +71,25 @@ fn each_refusal_names_its_line_and_column() {
             cell: "eleven".into()
         }
     );
-    assert!(e.to_string().starts_with("line 3, column 2 (pH): 'eleven' is not a number"));
+    assert!(
+        e.to_string()
+            .starts_with("line 3, column 2 (pH): 'eleven' is not a number")
+    );
     assert!(matches!(
         parse_readings("0,12.1\n5,15.2\n"),
-        Err(MeasuredError::PhOutOfRange { line: 2, column: 2, .. })
+        Err(MeasuredError::PhOutOfRange {
+            line: 2,
+            column: 2,
+            ..
+        })
     ));
     assert!(matches!(
         parse_readings("0,12.1\n-1,11\n"),
-        Err(MeasuredError::TitrantOutOfRange { line: 2, column: 1, .. })
+        Err(MeasuredError::TitrantOutOfRange {
+            line: 2,
+            column: 1,
+            ..
+        })
     ));
     assert!(matches!(
         parse_readings("0,12.1\n1,11,20,4\n"),
@@ -85,11 +102,20 @@ fn each_refusal_names_its_line_and_column() {
     ));
     assert!(matches!(
         parse_readings("0,12.1,20\n1,11\n"),
-        Err(MeasuredError::WrongColumns { line: 2, found: 2, expected: 3, .. })
+        Err(MeasuredError::WrongColumns {
+            line: 2,
+            found: 2,
+            expected: 3,
+            ..
+        })
     ));
     assert!(matches!(
         parse_readings("0;12,1;120\n"),
-        Err(MeasuredError::Temperature { line: 1, column: 3, .. })
+        Err(MeasuredError::Temperature {
+            line: 1,
+            column: 3,
+            ..
+        })
     ));
     // With commas between cells a decimal comma cannot be told from a separator: "0,12,1" is
     // three cells (titrant 0, pH 12, 1 °C), which is why decimal commas need ; or tab.
@@ -122,7 +148,12 @@ fn projects_keep_measured_titrations_and_old_files_still_load() {
     // A project written before measured titrations existed has none.
     let old = Project::demo().to_ron().expect("ron");
     assert!(!old.contains("measured"));
-    assert!(Project::from_ron(&old, "old.ron").expect("loads").measured.is_empty());
+    assert!(
+        Project::from_ron(&old, "old.ron")
+            .expect("loads")
+            .measured
+            .is_empty()
+    );
     // A bad reading in a project file is refused with what is wrong.
     let mut bad = p.clone();
     bad.measured[0].points[1].ph = 20.0;

@@ -97,22 +97,13 @@ pub fn run(args: &FitArgs) -> Result<ExitCode> {
         source_file: file_name.clone(),
         imported: date.clone(),
     };
-    let f = fit::fit(
-        &r.library,
-        r.conditions,
-        &r.recipe,
-        &titration,
-        &unknowns,
-    )?;
+    let f = fit::fit(&r.library, r.conditions, &r.recipe, &titration, &unknowns)?;
     let saved = match &args.save_to_library {
         Some(name) => {
-            let titrant_id = saltwise_chem::qc::Titrant::find(
-                &r.library,
-                &args.titrant,
-                args.normality,
-            )?
-            .id()
-            .to_owned();
+            let titrant_id =
+                saltwise_chem::qc::Titrant::find(&r.library, &args.titrant, args.normality)?
+                    .id()
+                    .to_owned();
             let how = format!(
                 "{sample_g} g of product titrated with {} N {titrant_id}, {} readings",
                 args.normality,
@@ -133,7 +124,10 @@ pub fn run(args: &FitArgs) -> Result<ExitCode> {
             // Checked against the library without the user's entries already in it (`save`
             // reads the user library and checks the whole of it).
             let base = base_library(&args.recipe)?;
-            Some((name.trim().to_owned(), user_lib::save(&base, entry, provenance)?))
+            Some((
+                name.trim().to_owned(),
+                user_lib::save(&base, entry, provenance)?,
+            ))
         }
         None => None,
     };
@@ -240,7 +234,11 @@ fn to_text(f: &Fit, t: &MeasuredTitration, data: &str) -> String {
         let se = p
             .std_error
             .map_or_else(|| "—".to_owned(), |e| format!("{e:.4}"));
-        let mark = if p.determined { "" } else { "  (not determined)" };
+        let mark = if p.determined {
+            ""
+        } else {
+            "  (not determined)"
+        };
         s += &format!(
             "{:<28} {:>14.4} {:>12}  {}{mark}\n",
             p.name, p.value, se, p.unit
