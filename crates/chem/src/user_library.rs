@@ -234,9 +234,9 @@ pub fn fitted_entry(
             .check_as(pka_value, "fitted pKa")
             .map_err(|e| UserLibraryError::Nothing(format!("not saved: {e}")))?;
         // The amount's sign says which form is there: positive acid HA, negative base B.
-        let signed =
-            fit.parameter(&amount)
-                .map_or(0.0, |p| if as_base { -p.value } else { p.value });
+        let signed = fit
+            .parameter(&amount)
+            .map_or(0.0, |p| if as_base { -p.value } else { p.value });
         let base_form = signed < 0.0;
         let system = System {
             id: id.clone(),
