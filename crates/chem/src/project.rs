@@ -15,6 +15,7 @@ use crate::amount::Unit;
 use crate::error::ProjectError;
 use crate::library::{Library, LibraryData};
 use crate::limits;
+use crate::measured::MeasuredTitration;
 use crate::recipe::{Recipe, RecipeLine};
 use crate::solver::ActivityModel;
 use crate::tolerance::{MAX_SAMPLES, Tolerances};
@@ -102,6 +103,9 @@ pub struct Project {
     pub settings: Settings,
     /// Custom systems, ions and ingredients the recipe may use.
     pub custom: LibraryData,
+    /// Measured titrations imported into the project (pH-meter readings), in the order added.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub measured: Vec<MeasuredTitration>,
 }
 
 /// A project as written in a file of any supported version, before migration.
@@ -124,6 +128,8 @@ struct Stored {
     settings: Settings,
     #[serde(default)]
     custom: LibraryData,
+    #[serde(default)]
+    measured: Vec<MeasuredTitration>,
 }
 
 /// Reads a field written bare as present (RON would otherwise expect `Some(…)`).
@@ -148,6 +154,7 @@ impl Project {
             current: 0,
             settings: Settings::default(),
             custom: LibraryData::default(),
+            measured: Vec::new(),
         }
     }
 
@@ -336,6 +343,7 @@ impl Project {
             current: stored.current,
             settings: stored.settings,
             custom: stored.custom,
+            measured: stored.measured,
         };
         project.validate(origin)?;
         Ok(project)
@@ -420,6 +428,9 @@ impl Project {
         }
         s.qc.check()
             .map_err(|e| invalid(format!("QC method: {e}")))?;
+        for m in &self.measured {
+            m.check().map_err(invalid)?;
+        }
         if s.band_samples == 0 || s.band_samples > MAX_SAMPLES {
             return Err(invalid(format!(
                 "band_samples {} is not allowed: give 1 to {MAX_SAMPLES}",

@@ -37,6 +37,8 @@ pub enum Command {
     Titrate(crate::titrate::TitrateArgs),
     /// The batch sheet of a project's variant, scaled to a batch size, as one HTML file.
     Report(crate::report::ReportArgs),
+    /// A measured titration fitted: assays, an unknown acid or base, a meter offset, with standard errors.
+    Fit(crate::fit::FitArgs),
 }
 
 /// The anion of the water's hardness.

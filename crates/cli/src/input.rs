@@ -25,6 +25,8 @@ pub struct Resolved {
 /// Builds the library, recipe and conditions from the arguments (and project file, if any).
 pub fn resolve(args: &RecipeArgs) -> Result<Resolved> {
     let mut library = Library::built_in().context("the built-in library")?;
+    // Entries the user saved (fitted ingredients), from the data folder.
+    library = crate::user_lib::extend(library)?;
     let mut conditions = Conditions::default();
     let mut recipe = Recipe::default();
     let mut adjuster = None;

@@ -5,12 +5,14 @@
 mod args;
 mod compare;
 mod design;
+mod fit;
 mod input;
 mod output;
 mod report;
 mod sweep;
 mod titrate;
 mod tolerance;
+mod user_lib;
 
 use std::process::ExitCode;
 
@@ -40,5 +42,6 @@ fn run(cli: args::Cli) -> anyhow::Result<ExitCode> {
         args::Command::Compare(a) => compare::run(&a),
         args::Command::Titrate(a) => titrate::run(&a),
         args::Command::Report(a) => report::run(&a),
+        args::Command::Fit(a) => fit::run(&a),
     }
 }

@@ -223,6 +223,18 @@ impl Constants {
         &self.ka[self.ka_start[system]..self.ka_start[system + 1]]
     }
 
+    /// Sets the thermodynamic pKa of step `step` of a system at these conditions (a fitted
+    /// constant, taken as it is at this temperature); false when there is no such step.
+    pub fn set_pka(&mut self, system: usize, step: usize, pka: f64) -> bool {
+        match (self.ka_start.get(system), self.ka_start.get(system + 1)) {
+            (Some(&from), Some(&to)) if from + step < to => {
+                self.ka[from + step] = 10f64.powf(-pka);
+                true
+            }
+            _ => false,
+        }
+    }
+
     /// Charge of a system's fully protonated form.
     pub fn z0(&self, system: usize) -> i32 {
         self.z0[system]
