@@ -20,6 +20,7 @@ use crate::engine::Engine;
 use crate::messages::{Messages, Notice, Prompt};
 use crate::recovery::RecoveryStore;
 use crate::ui;
+use crate::user_store::UserStore;
 
 /// A failure injected into saves between writing the temporary file and renaming it (tests).
 pub type SaveFault = Box<dyn Fn(&Path) -> std::io::Result<()>>;
@@ -43,6 +44,8 @@ pub struct Workbench {
     pub(crate) allow_close: bool,
     pub(crate) quit_requested: bool,
     save_fault: Option<SaveFault>,
+    /// The user's own library file (fitted ingredients).
+    pub(crate) user_store: UserStore,
 }
 
 impl Workbench {
@@ -76,12 +79,33 @@ impl Workbench {
             allow_close: false,
             quit_requested: false,
             save_fault: None,
+            user_store: UserStore::from_env(),
         };
+        app.load_user_library();
         app.look_for_left_behind();
         if let Some(problem) = problem {
             app.messages.status(&problem, true);
         }
         app
+    }
+
+    /// Keeps the user library in another file (tests; a portable install) and reads it.
+    pub fn with_user_store(mut self, user_store: UserStore) -> Self {
+        self.user_store = user_store;
+        self.load_user_library();
+        self
+    }
+
+    /// Reads the user library into the engine; a file that cannot be read is said and left out.
+    fn load_user_library(&mut self) {
+        let loaded = self
+            .user_store
+            .read()
+            .and_then(|user| self.engine.set_user_library(&user));
+        if let Err(e) = loaded {
+            self.messages
+                .status(&format!("Your own library was left out: {e}"), true);
+        }
     }
 
     /// Queues a command for the next frame (menus, shortcuts and tests all come here).
@@ -102,6 +126,11 @@ impl Workbench {
     /// The solved state of the open project.
     pub fn engine(&self) -> &Engine {
         &self.engine
+    }
+
+    /// The last fit of the measured-titration section, or why it failed.
+    pub fn panels_fit_result(&self) -> Option<&Result<saltwise_chem::fit::Fit, String>> {
+        self.panels.fit.result.as_ref().map(|(_, r)| r)
     }
 
     /// The file the project was last opened from or saved to.
@@ -289,6 +318,13 @@ impl Workbench {
                     ui::sweeps::sweeps_ui(ui, &self.engine, project.settings.temp_c);
                     ui::hardness::hardness_ui(ui, project, &self.engine, &mut self.panels.refused);
                     ui::qc::qc_ui(ui, &mut project.settings.qc, &self.engine, &mut self.panels);
+                    ui::fit::fit_ui(
+                        ui,
+                        project,
+                        &self.engine,
+                        &mut self.panels.fit,
+                        &mut commands,
+                    );
                     ui::tolerance::tolerance_ui(ui, project, &self.engine, &mut self.panels);
                     ui::design::design_ui(
                         ui,

@@ -62,6 +62,18 @@ pub enum Command {
     Export(Export),
     /// Write a chart, its curves or the batch sheet to the given file.
     ExportToPath(Export, PathBuf),
+    /// Choose a readings file and import it as a measured titration.
+    ImportReadings,
+    /// Import a readings file as a measured titration.
+    ImportReadingsFromPath(PathBuf),
+    /// Import the readings pasted into the fit form.
+    ImportPasted,
+    /// Remove a measured titration (by index) from the project.
+    RemoveMeasured(usize),
+    /// Fit the chosen unknowns to the chosen measured titration.
+    RunFit,
+    /// Save the last fit's ingredient to the user's own library.
+    SaveFitted,
 }
 
 /// A discrete change to the recipe: one undo step each. Drags and typing edit the project
@@ -180,6 +192,22 @@ impl Workbench {
                 }
             }
             Command::ExportToPath(export, path) => self.export_to(export, &path),
+            Command::ImportReadings => {
+                let mut dialog = rfd::FileDialog::new()
+                    .add_filter("Readings", &["csv", "txt", "tsv"])
+                    .add_filter("Any file", &["*"]);
+                if let Some(dir) = self.dialog_dir() {
+                    dialog = dialog.set_directory(dir);
+                }
+                if let Some(path) = dialog.pick_file() {
+                    self.import_readings_from(&path);
+                }
+            }
+            Command::ImportReadingsFromPath(path) => self.import_readings_from(&path),
+            Command::ImportPasted => self.import_pasted(),
+            Command::RemoveMeasured(i) => self.remove_measured(i),
+            Command::RunFit => self.run_fit(),
+            Command::SaveFitted => self.save_fitted(),
         }
     }
 

@@ -214,6 +214,23 @@ impl Engine {
         }
     }
 
+    /// Puts the user's saved entries into the base library (built-in plus the user library);
+    /// everything is solved again. On an error the base library is left as it was.
+    pub fn set_user_library(
+        &mut self,
+        user: &saltwise_chem::user_library::UserLibrary,
+    ) -> Result<(), String> {
+        let built_in = Library::built_in().map_err(|e| format!("the built-in library: {e}"))?;
+        let base = user
+            .extend(&built_in)
+            .map_err(|e| format!("the user library: {e}"))?;
+        self.base = Ok(base);
+        self.library = None;
+        self.constants = None;
+        self.solved = None;
+        Ok(())
+    }
+
     /// The built-in library, before any custom ingredients.
     pub fn base_library(&self) -> Result<&Library, &str> {
         self.base.as_ref().map_err(String::as_str)

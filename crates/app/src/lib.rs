@@ -19,9 +19,11 @@ mod document;
 mod engine;
 pub mod exports;
 mod history;
+mod measured;
 mod messages;
 mod recovery;
 mod ui;
+pub mod user_store;
 mod variant_edit;
 
 pub use app::{SaveFault, Workbench};

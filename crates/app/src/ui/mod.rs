@@ -4,6 +4,7 @@ pub mod cautions;
 pub mod custom_ingredient;
 pub mod design;
 pub mod dose_curve;
+pub mod fit;
 pub mod hardness;
 pub mod qc;
 pub mod readout;
@@ -42,6 +43,8 @@ pub struct PanelState {
     pub qc_end_points: Option<String>,
     /// Batch size of an exported batch sheet, kg (0: the recipe's own).
     pub sheet_batch_kg: f64,
+    /// The measured-titration and fit form.
+    pub fit: crate::measured::FitForm,
 }
 
 // One colour, one meaning. The colours are from the Okabe–Ito set, chosen to stay apart for

@@ -9,6 +9,7 @@ use std::path::{Path, PathBuf};
 use egui::{Key, Modifiers};
 use egui_kittest::Harness;
 use egui_kittest::kittest::Queryable as _;
+use saltwise::user_store::UserStore;
 use saltwise::{ConfigStore, RecoveryStore, Workbench};
 use saltwise_chem::project::Project;
 use saltwise_chem::{Recipe, RecipeLine};
@@ -40,7 +41,8 @@ pub fn harness_in(project: Project, folders: &Folders) -> Harness<'static, Workb
         project,
         ConfigStore::at(&folders.config),
         RecoveryStore::at(&folders.data),
-    );
+    )
+    .with_user_store(UserStore::in_dir(&folders.data));
     Harness::builder()
         .with_size([1600.0, 1000.0])
         // The pH band is drawn a part per frame (8 ms each): a debug build on a loaded machine
