@@ -40,7 +40,7 @@ pub fn fit_ui(
             }
             form.selected = form.selected.min(project.measured.len() - 1);
             ui.separator();
-            chooser_ui(ui, project, form, commands);
+            chooser_ui(ui, project, library, form, commands);
             let titration = &project.measured[form.selected];
             let fit = form.fit_for(titration).cloned();
             chart_ui(ui, engine, titration, fit.as_ref().and_then(|r| r.as_ref().ok()));
@@ -102,7 +102,13 @@ fn import_ui(ui: &mut Ui, project: &Project, form: &mut FitForm, commands: &mut 
     }
 }
 
-fn chooser_ui(ui: &mut Ui, project: &Project, form: &mut FitForm, commands: &mut Vec<Command>) {
+fn chooser_ui(
+    ui: &mut Ui,
+    project: &Project,
+    library: &Library,
+    form: &mut FitForm,
+    commands: &mut Vec<Command>,
+) {
     ui.horizontal_wrapped(|ui| {
         ui.label("Readings");
         let r = egui::ComboBox::from_id_salt("measured_choice")
@@ -130,7 +136,9 @@ fn chooser_ui(ui: &mut Ui, project: &Project, form: &mut FitForm, commands: &mut
         t.imported,
         sig(t.sample_g, 4),
         sig(t.normality, 3),
-        t.titrant,
+        library
+            .entry(&t.titrant)
+            .map_or(t.titrant.as_str(), |e| e.ingredient.formula.as_str()),
         if t.titrant_by_mass {
             ", titrant weighed"
         } else {
@@ -170,6 +178,9 @@ fn chart_ui(ui: &mut Ui, engine: &Engine, t: &MeasuredTitration, fit: Option<&Fi
         .y_axis_label("pH")
         .legend(Legend::default())
         .include_x(0.0)
+        .allow_scroll(false)
+        .allow_zoom(false)
+        .allow_drag(false)
         .show(ui, |plot| {
             if let Some(p) = predicted {
                 plot.line(
@@ -198,6 +209,9 @@ fn chart_ui(ui: &mut Ui, engine: &Engine, t: &MeasuredTitration, fit: Option<&Fi
             .x_axis_label("Titrant, mL")
             .y_axis_label("Residual, pH")
             .include_y(0.0)
+            .allow_scroll(false)
+            .allow_zoom(false)
+            .allow_drag(false)
             .show(ui, |plot| {
                 plot.hline(egui_plot::HLine::new("zero", 0.0).color(super::PH_LINE));
                 plot.points(
@@ -221,9 +235,13 @@ fn unknowns_ui(
     ui.horizontal_wrapped(|ui| {
         let mut on = form.assay.is_some();
         if ui.checkbox(&mut on, "Effective assay of").changed() {
-            form.assay = on
-                .then(|| project.recipe().lines.first().map(|l| l.ingredient.clone()))
-                .flatten();
+            // The first line that is not plain water is the usual suspect.
+            let lines = &project.recipe().lines;
+            let first = lines
+                .iter()
+                .find(|l| l.ingredient != "water")
+                .or(lines.first());
+            form.assay = on.then(|| first.map(|l| l.ingredient.clone())).flatten();
         }
         if let Some(id) = form.assay.as_mut() {
             let name = |id: &str| {

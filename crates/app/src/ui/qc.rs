@@ -289,6 +289,9 @@ fn results_ui(ui: &mut Ui, data: &QcData, library: &Library) {
         .y_axis_label("pH")
         .legend(Legend::default())
         .include_x(0.0)
+        .allow_scroll(false)
+        .allow_zoom(false)
+        .allow_drag(false)
         .show(ui, |plot| {
             plot.line(
                 Line::new("Predicted pH", curve)
