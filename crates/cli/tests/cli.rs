@@ -378,3 +378,21 @@ fn projects_open_through_the_checked_loader() {
     assert!(err.contains("unknown ingredient 'lactic_acd_88'"), "{err}");
     assert!(err.contains("line ") && err.contains("column"), "{err}");
 }
+
+#[test]
+fn every_demo_project_loads_and_solves() {
+    let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../../assets/demo");
+    let mut seen = 0;
+    for entry in std::fs::read_dir(&dir).expect("the demo folder") {
+        let path = entry.expect("an entry").path();
+        if path.extension().and_then(|e| e.to_str()) != Some("ron") {
+            continue;
+        }
+        let p = path.to_string_lossy().into_owned();
+        let v = json(&["ph", "--project", &p, "--json"]);
+        assert!(v["ph"].as_f64().is_some_and(f64::is_finite), "{p}");
+        assert_eq!(v["converged"], true, "{p}");
+        seen += 1;
+    }
+    assert!(seen >= 4, "{seen} demo projects");
+}
