@@ -200,12 +200,17 @@ impl<'a> Doser<'a> {
     /// Sweeps `points` doses evenly from `from_g` to `to_g`, warm-started point to point.
     pub fn curve_between(&self, from_g: f64, to_g: f64, points: usize) -> DoseCurve {
         let n = points.max(2);
+        let doses: Vec<f64> = (0..n)
+            .map(|i| from_g + (to_g - from_g) * i as f64 / (n - 1) as f64)
+            .collect();
+        // Every point's composition is made first, so one balance can move from one to the next.
+        let compositions: Vec<Composition> = doses.iter().map(|&d| self.composition(d)).collect();
+        let mut sequence = solver::Sequence::new(self.constants);
         let mut out = Vec::with_capacity(n);
         // Each solve starts from the extrapolation of the (up to) three before it.
         let mut last: Vec<(f64, f64)> = Vec::with_capacity(3);
         let mut previous: Option<Solution> = None;
-        for i in 0..n {
-            let dose_g = from_g + (to_g - from_g) * i as f64 / (n - 1) as f64;
+        for (i, (&dose_g, composition)) in doses.iter().zip(&compositions).enumerate() {
             let guess = match last.as_slice() {
                 [a, b, c] => Some(Guess {
                     ph: a.0 + (2.0 * (a.0 - b.0) - (b.0 - c.0)).clamp(-1.0, 1.0),
@@ -221,15 +226,10 @@ impl<'a> Doser<'a> {
                 }),
                 _ => None,
             };
-            let s = match &previous {
-                Some(p) => solver::solve_near(
-                    self.constants,
-                    &self.composition(dose_g),
-                    guess,
-                    self.activity,
-                    p,
-                ),
-                None => self.solve(dose_g, guess),
+            let s = if i == 0 {
+                self.solve(dose_g, guess)
+            } else {
+                sequence.solve(composition, guess, self.activity, previous.as_ref())
             };
             if last.len() == 3 {
                 last.pop();

@@ -56,6 +56,9 @@ pub struct ChargeBalance<'a> {
     /// Scratch of the bound state and the free distributions, reused by every evaluation.
     state: BoundState,
     dist: Distributions,
+    /// Scratch of the joint Newton steps: the matrix, the right-hand side, the free metals
+    /// to return to if the steps fail.
+    joint: (Vec<f64>, Vec<f64>, Vec<f64>),
 }
 
 /// Free-form distributions of every slot (flat) with their ⟨j⟩ and Var(j).
@@ -108,6 +111,7 @@ impl<'a> ChargeBalance<'a> {
             totals: composition.systems.iter().map(|&(_, t)| t).collect(),
             state: BoundState::default(),
             dist: Distributions::default(),
+            joint: Default::default(),
         };
         b.set_ionic_strength(0.0);
         b
@@ -127,6 +131,52 @@ impl<'a> ChargeBalance<'a> {
         }
         model.set_free_metals(&solution.free_metals);
         model
+    }
+
+    /// Moves the balance to another composition of the same shape — the same systems and ions
+    /// in the same order, the same ions present, the unattributed charge of the same sign — as
+    /// the points of a dose curve are; keeps the layout, the binding, the coefficients and the
+    /// warm start. Returns false (and changes nothing) when the shape differs.
+    pub fn retarget(&mut self, composition: &'a Composition) -> bool {
+        let old = self.composition;
+        let same_systems = old.systems.len() == composition.systems.len()
+            && old
+                .systems
+                .iter()
+                .zip(&composition.systems)
+                .all(|(a, b)| a.0 == b.0);
+        let same_ions = old.ions.len() == composition.ions.len()
+            && old
+                .ions
+                .iter()
+                .zip(&composition.ions)
+                .all(|(a, b)| a.0 == b.0 && (a.1 > 0.0) == (b.1 > 0.0));
+        if !same_systems || !same_ions {
+            return false;
+        }
+        let attributed: f64 = composition
+            .ions
+            .iter()
+            .map(|&(i, m)| f64::from(self.constants.ion_charges[i]) * m)
+            .sum();
+        let unattributed = composition.spectator_charge - attributed;
+        if (unattributed < 0.0) != (self.layout.unattributed_charge < 0.0) {
+            return false;
+        }
+        self.composition = composition;
+        self.layout.unattributed_charge = unattributed;
+        self.totals.clear();
+        self.totals
+            .extend(composition.systems.iter().map(|&(_, t)| t));
+        for m in &mut self.binding.metals {
+            m.total = composition.ions[m.slot].1;
+        }
+        true
+    }
+
+    /// The activity model of this balance.
+    pub fn model(&self) -> ActivityModel {
+        self.model
     }
 
     /// Sets the coefficients from the charges at an ionic strength (Davies or ideal; the start
@@ -180,25 +230,50 @@ impl<'a> ChargeBalance<'a> {
     /// evaluation, and always returns) takes over from the start.
     pub fn root(&mut self, start: f64) -> super::newton::Outcome {
         if !self.binding.is_empty() {
-            let u0 = self.u.clone();
-            if let Some(outcome) = self.joint_root(start) {
+            let mut u0 = std::mem::take(&mut self.joint.2);
+            u0.clear();
+            u0.extend_from_slice(&self.u);
+            let outcome = self.joint_root(start);
+            if outcome.is_none() {
+                self.u.copy_from_slice(&u0);
+                self.state.forget_warm_start();
+            }
+            self.joint.2 = u0;
+            if let Some(outcome) = outcome {
                 return outcome;
             }
-            self.u = u0;
-            self.state.forget_warm_start();
         }
         super::newton::solve_bracketed(|x| self.evaluate(x), start, super::PH_MIN, super::PH_MAX)
     }
 
     /// Joint Newton on (pH, ln free metals): `None` unless it converges inside the range.
     fn joint_root(&mut self, start: f64) -> Option<super::newton::Outcome> {
+        let k = self.binding.metals.len();
+        let n = k + 1;
+        let (mut a, mut b) = (
+            std::mem::take(&mut self.joint.0),
+            std::mem::take(&mut self.joint.1),
+        );
+        a.resize(n * n, 0.0);
+        b.resize(n, 0.0);
+        let outcome = self.joint_steps(start, &mut a, &mut b, k);
+        self.joint.0 = a;
+        self.joint.1 = b;
+        outcome
+    }
+
+    /// The steps of [`Self::joint_root`] with its scratch lent.
+    fn joint_steps(
+        &mut self,
+        start: f64,
+        a: &mut [f64],
+        b: &mut [f64],
+        k: usize,
+    ) -> Option<super::newton::Outcome> {
         const MAX_STEPS: u32 = 30;
         const REL_TOL: f64 = 1e-14;
         const METAL_TOL: f64 = 1e-14;
-        let k = self.binding.metals.len();
         let n = k + 1;
-        let mut a = vec![0.0; n * n];
-        let mut b = vec![0.0; n];
         let mut ph = start.clamp(super::PH_MIN, super::PH_MAX);
         if !ph.is_finite() {
             return None;
@@ -252,7 +327,7 @@ impl<'a> ChargeBalance<'a> {
                 row[1..].copy_from_slice(&lin.dfdu[m * k..(m + 1) * k]);
                 b[m + 1] = -lin.f[m];
             }
-            if !super::binding::solve_linear(&mut a, &mut b, n) {
+            if !super::binding::solve_linear(a, b, n) {
                 return None;
             }
             // At most one pH unit and a factor e² in any free metal per step.

@@ -433,6 +433,60 @@ pub fn solve_near(
     }
 }
 
+/// Solves one composition after another of the same shape (the points of a curve), keeping one
+/// charge balance between them, so its layout, binding and scratch space are made once.
+pub struct Sequence<'a> {
+    constants: &'a Constants,
+    balance: Option<balance::ChargeBalance<'a>>,
+}
+
+impl<'a> Sequence<'a> {
+    /// An empty sequence under some constants.
+    pub fn new(constants: &'a Constants) -> Self {
+        Self {
+            constants,
+            balance: None,
+        }
+    }
+
+    /// [`solve_near`] of `composition`, reusing the last balance when the shape allows.
+    pub fn solve(
+        &mut self,
+        composition: &'a Composition,
+        guess: Option<Guess>,
+        activity: ActivityModel,
+        near: Option<&Solution>,
+    ) -> Solution {
+        if activity == ActivityModel::Auto {
+            return solve(self.constants, composition, guess);
+        }
+        let kept = self
+            .balance
+            .as_mut()
+            .is_some_and(|b| b.model() == activity && b.retarget(composition));
+        if !kept {
+            let mut model =
+                balance::ChargeBalance::with_model(self.constants, composition, activity);
+            if let Some(n) = near {
+                model.set_free_metals(&n.free_metals);
+            }
+            self.balance = Some(model);
+        }
+        let Some(model) = self.balance.as_mut() else {
+            return solve_as(self.constants, composition, guess, activity);
+        };
+        let start_ionic = guess
+            .map_or(0.5 * composition.spectator_z2, |g| g.ionic_strength)
+            .max(0.0);
+        let start_ph = guess.map_or(7.0, |g| g.ph);
+        if model.is_pitzer() {
+            solve_pitzer(model, start_ph, start_ionic)
+        } else {
+            solve_by_charge(model, activity, start_ph, start_ionic)
+        }
+    }
+}
+
 /// Solves under one activity model (not `Auto`).
 fn solve_with(
     constants: &Constants,
