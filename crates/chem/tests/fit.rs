@@ -1,6 +1,6 @@
 //! Fits of measured titrations: synthetic titrations from known parameters with seeded noise are
-//! recovered within two standard errors; unidentifiable fits say so; refusals; saving a fitted
-//! ingredient to the user library.
+//! recovered within two standard errors; a textbook's worked titration gives back its answer;
+//! unidentifiable fits say so; refusals; saving a fitted ingredient to the user library.
 
 use saltwise_chem::fit::{self, FitError, Unknown};
 use saltwise_chem::measured::{MeasuredPoint, MeasuredTitration};
@@ -406,4 +406,57 @@ fn fitted_unknown_acid_and_assay_saved_to_the_user_library() {
     let f = fit::fit(&l, Conditions::default(), &degreaser(), &t, &unknowns).expect("fit");
     let entry = fitted_entry(&l, &f, "lye_lot_9", None, "x").expect("entry");
     assert!((entry.ingredients[0].assay - 0.47).abs() < 0.005);
+}
+
+/// The worked titration curve of a textbook: 50.00 mL of 0.02000 M MES (pKa 6.27) titrated with
+/// 0.1000 M NaOH, equivalence at 10.00 mL (D. C. Harris, Quantitative Chemical Analysis, W. H.
+/// Freeman, chapter on acid–base titrations, the table "titration curve for MES treated with
+/// NaOH"; from memory). The book computes it with concentrations for activities and
+/// Kw = 1.00e-14, so the check fits it the same way, ideal. Each value was also worked by hand
+/// here with the book's method (quadratic at 0 mL, Henderson–Hasselbalch before equivalence, the
+/// conjugate base's Kb at 10.00 mL, excess OH⁻ after), and every one agrees to the 0.01 shown.
+const TEXTBOOK_MES: [(f64, f64); 16] = [
+    (0.00, 3.99),
+    (0.50, 4.99),
+    (1.00, 5.32),
+    (2.00, 5.67),
+    (3.00, 5.90),
+    (4.00, 6.09),
+    (5.00, 6.27),
+    (6.00, 6.45),
+    (7.00, 6.64),
+    (8.00, 6.87),
+    (9.00, 7.22),
+    (9.50, 7.55),
+    (9.90, 8.27),
+    (10.00, 9.25),
+    (10.10, 10.22),
+    (11.00, 11.21),
+];
+
+#[test]
+fn a_textbook_titration_gives_back_its_acid_amount_and_pka() {
+    let mut t = titration("naoh", 0.1, 50.0, &TEXTBOOK_MES.map(|(ml, _)| ml));
+    for (p, (_, ph)) in t.points.iter_mut().zip(TEXTBOOK_MES) {
+        p.ph = ph;
+    }
+    let ideal = Conditions {
+        activity: saltwise_chem::ActivityModel::Ideal,
+        ..Conditions::default()
+    };
+    // The sample is the acid in water: 50.00 mL taken as 50.00 g (the book's mol/L as mol/kg).
+    let water = Recipe::in_grams(&[("water", 1000.0)]);
+    let unknowns = [Unknown::UnknownAcid { pka_start: 5.0 }];
+    let f = fit::fit(&lib(), ideal, &water, &t, &unknowns).expect("fit");
+    assert!(f.converged, "{}", f.termination);
+    // The book's answer: 0.02000 M, i.e. 20.0 mmol/kg, and pKa 6.27. The model's titrant adds
+    // 0.4 % NaOH by mass to the water it brings and its pKw is 13.995 (IAPWS R11-07), not
+    // 14.00: both move the recovered values by well under the tolerances.
+    let amount = f.parameter("unknown-acid:amount").expect("amount");
+    let pka = f.parameter("unknown-acid:pka").expect("pKa");
+    assert!((amount.value - 20.0).abs() < 0.1, "amount {}", amount.value);
+    assert!((pka.value - 6.27).abs() < 0.01, "pKa {}", pka.value);
+    assert!(amount.determined && pka.determined, "{:?}", f.warnings);
+    // The table is rounded to 0.01 pH: the residuals are of that size.
+    assert!(f.rms_ph < 0.02, "rms {}", f.rms_ph);
 }
