@@ -80,6 +80,12 @@ pub fn davies_function(ionic_strength: f64) -> f64 {
     s / (1.0 + s) - 0.3 * ionic_strength.max(0.0)
 }
 
+/// dφ/dI of the Davies function φ, taken at I ≥ 10⁻¹² mol/kg (it grows without bound at 0).
+pub fn davies_slope(ionic_strength: f64) -> f64 {
+    let s = ionic_strength.max(1e-12).sqrt();
+    0.5 / (s * (1.0 + s) * (1.0 + s)) - 0.3
+}
+
 /// log10 γ for charge z, given A and the Davies function value.
 pub fn log_gamma(model: ActivityModel, a: f64, z: i32, davies_f: f64) -> f64 {
     match model {

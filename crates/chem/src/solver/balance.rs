@@ -46,6 +46,8 @@ pub struct ChargeBalance<'a> {
     gamma: Vec<f64>,
     /// The ionic strength the by-charge coefficients are for (NaN when set otherwise).
     ionic: f64,
+    /// ln 10 · A under Davies (the coefficients follow the ionic strength by charge), else 0.
+    lambda: f64,
     /// Conditional Ka of every step of every system present, in composition order.
     ka_c: Vec<f64>,
     /// Conditional formation constant of each complex taking part.
@@ -68,6 +70,8 @@ struct Distributions {
     q_start: Vec<usize>,
     mean: Vec<f64>,
     variance: Vec<f64>,
+    /// ⟨z²⟩, Cov(j, z²) and Var(z²) of each slot.
+    charge_moments: Vec<[f64; 3]>,
 }
 
 impl<'a> ChargeBalance<'a> {
@@ -104,6 +108,11 @@ impl<'a> ChargeBalance<'a> {
             layout,
             pitzer,
             ionic: f64::NAN,
+            lambda: if model == ActivityModel::Davies {
+                LN_10 * constants.davies_a
+            } else {
+                0.0
+            },
             ka_c: Vec::with_capacity(steps),
             k_cond: vec![0.0; binding.complexes.len()],
             binding,
@@ -160,7 +169,11 @@ impl<'a> ChargeBalance<'a> {
             .map(|&(i, m)| f64::from(self.constants.ion_charges[i]) * m)
             .sum();
         let unattributed = composition.spectator_charge - attributed;
-        if (unattributed < 0.0) != (self.layout.unattributed_charge < 0.0) {
+        // A sign that is rounding (the charge of the ions named sums to the spectators') makes
+        // no difference: the unattributed charge only enters the ionic strength, as |charge|.
+        let rounding = 1e-12 * composition.spectator_abs_charge;
+        let held_negative = self.layout.charges[self.layout.unattributed] < 0;
+        if (unattributed < 0.0) != held_negative && unattributed.abs() > rounding {
             return false;
         }
         self.composition = composition;
@@ -246,34 +259,70 @@ impl<'a> ChargeBalance<'a> {
         super::newton::solve_bracketed(|x| self.evaluate(x), start, super::PH_MIN, super::PH_MAX)
     }
 
+    /// Joint Newton on (pH, ln free metals, ionic strength) under Davies: the ionic strength is
+    /// one more unknown, with the equation I(state) − I = 0 and the Davies coefficients'
+    /// derivative in the linearization, so it converges with the balances instead of in an
+    /// outer loop around them. `None` (with the free metals as they were) unless all of them
+    /// converge inside the range; the coefficients are then those of the returned state.
+    pub fn root_with_ionic(
+        &mut self,
+        start_ph: f64,
+        start_ionic: f64,
+    ) -> Option<super::newton::Outcome> {
+        if self.binding.is_empty() || self.lambda == 0.0 {
+            return None;
+        }
+        self.set_ionic_strength(start_ionic);
+        let mut u0 = std::mem::take(&mut self.joint.2);
+        u0.clear();
+        u0.extend_from_slice(&self.u);
+        let outcome = self.joint_root_following(start_ph, true);
+        if outcome.is_none() {
+            self.u.copy_from_slice(&u0);
+            self.state.forget_warm_start();
+        }
+        self.joint.2 = u0;
+        outcome
+    }
+
     /// Joint Newton on (pH, ln free metals): `None` unless it converges inside the range.
     fn joint_root(&mut self, start: f64) -> Option<super::newton::Outcome> {
+        self.joint_root_following(start, false)
+    }
+
+    /// [`Self::joint_root`], with the ionic strength one more unknown when `follow` is set.
+    fn joint_root_following(&mut self, start: f64, follow: bool) -> Option<super::newton::Outcome> {
         let k = self.binding.metals.len();
-        let n = k + 1;
+        let follow = follow && self.lambda > 0.0;
+        let n = k + 1 + usize::from(follow);
         let (mut a, mut b) = (
             std::mem::take(&mut self.joint.0),
             std::mem::take(&mut self.joint.1),
         );
         a.resize(n * n, 0.0);
         b.resize(n, 0.0);
-        let outcome = self.joint_steps(start, &mut a, &mut b, k);
+        let outcome = self.joint_steps(start, &mut a, &mut b, k, follow);
         self.joint.0 = a;
         self.joint.1 = b;
         outcome
     }
 
-    /// The steps of [`Self::joint_root`] with its scratch lent.
+    /// The steps of [`Self::joint_root`] with its scratch lent. With `follow`, the unknowns are
+    /// (pH, ln free metals, I) and the last equation is I(state) − I = 0; the coefficients
+    /// follow I by the Davies equation, whose derivative the linearization carries (∂/∂φ).
     fn joint_steps(
         &mut self,
         start: f64,
         a: &mut [f64],
         b: &mut [f64],
         k: usize,
+        follow: bool,
     ) -> Option<super::newton::Outcome> {
         const MAX_STEPS: u32 = 30;
         const REL_TOL: f64 = 1e-14;
         const METAL_TOL: f64 = 1e-14;
-        let n = k + 1;
+        const METAL_STEP: f64 = 8.0;
+        let n = k + 1 + usize::from(follow);
         let mut ph = start.clamp(super::PH_MIN, super::PH_MAX);
         if !ph.is_finite() {
             return None;
@@ -296,6 +345,8 @@ impl<'a> ChargeBalance<'a> {
                 q_start: &self.dist.q_start,
                 mean: &self.dist.mean,
                 variance: &self.dist.variance,
+                charge_moments: &self.dist.charge_moments,
+                lambda: self.lambda,
                 totals: &self.totals,
                 oh: oh_molal,
                 ph,
@@ -305,7 +356,15 @@ impl<'a> ChargeBalance<'a> {
             if !e.residual.is_finite() {
                 return None;
             }
-            if e.residual.abs() <= REL_TOL * e.scale && self.state.metal_residual <= METAL_TOL {
+            let ionic_gap = if follow {
+                e.ionic_strength - self.ionic
+            } else {
+                0.0
+            };
+            if ionic_gap.abs() <= super::IONIC_TOL * (1.0 + self.ionic)
+                && e.residual.abs() <= REL_TOL * e.scale
+                && self.state.metal_residual <= METAL_TOL
+            {
                 self.binding.close_at(ph, &mut self.state);
                 let e = self.bound_evaluation(h_molal, oh_molal, sums);
                 return Some(super::newton::Outcome {
@@ -317,29 +376,57 @@ impl<'a> ChargeBalance<'a> {
                 });
             }
             let lin = self.binding.jacobian(&self.state);
-            // Row 0: the charge balance; rows 1..: the metals. Column 0: pH; 1..: ln m.
+            // Row 0: the charge balance; rows 1..=k: the metals; row k + 1 (with `follow`): the
+            // ionic strength. Column 0: pH; 1..=k: ln m; k + 1: I.
             a[0] = -LN_10 * (h_molal + oh_molal) + lin.drdp;
-            a[1..n].copy_from_slice(lin.drdu);
+            a[1..=k].copy_from_slice(lin.drdu);
             b[0] = -e.residual;
             for m in 0..k {
                 let row = &mut a[(m + 1) * n..(m + 2) * n];
                 row[0] = lin.dfdp[m];
-                row[1..].copy_from_slice(&lin.dfdu[m * k..(m + 1) * k]);
+                row[1..=k].copy_from_slice(&lin.dfdu[m * k..(m + 1) * k]);
                 b[m + 1] = -lin.f[m];
+            }
+            if follow {
+                // ∂/∂I = ∂/∂φ · dφ/dI; H⁺ and OH⁻ (z² = 1) have d ln m/dφ = λ.
+                let slope = super::activity::davies_slope(self.ionic);
+                let lambda = self.lambda;
+                a[k + 1] = (lambda * (h_molal - oh_molal) + lin.drdphi) * slope;
+                for m in 0..k {
+                    a[(m + 1) * n + k + 1] = lin.dfdphi[m] * slope;
+                }
+                let row = &mut a[(k + 1) * n..(k + 2) * n];
+                row[0] = 0.5 * (lin.dz2[0] + LN_10 * (oh_molal - h_molal));
+                for m in 0..k {
+                    row[1 + m] = 0.5 * lin.dz2[1 + m];
+                }
+                row[k + 1] = 0.5 * (lin.dz2[k + 1] + lambda * (h_molal + oh_molal)) * slope - 1.0;
+                b[k + 1] = -ionic_gap;
             }
             if !super::binding::solve_linear(a, b, n) {
                 return None;
             }
-            // At most one pH unit and a factor e² in any free metal per step.
-            let scale = (b[0].abs() / 1.0)
-                .max(b[1..].iter().fold(0.0f64, |x, s| x.max(s.abs())) / 2.0)
+            // At most one pH unit, a factor e⁸ in any free metal and half the ionic strength
+            // (or 10⁻³ mol/kg) per step.
+            let mut scale = (b[0].abs() / 1.0)
+                .max(b[1..=k].iter().fold(0.0f64, |x, s| x.max(s.abs())) / METAL_STEP)
                 .max(1.0);
+            if follow {
+                scale = scale.max(b[k + 1].abs() / (0.5 * self.ionic).max(1e-3));
+            }
             ph += b[0] / scale;
             if !(super::PH_MIN..=super::PH_MAX).contains(&ph) || !ph.is_finite() {
                 return None;
             }
             for (m, metal) in self.binding.metals.iter().enumerate() {
                 self.u[m] = (self.u[m] + b[m + 1] / scale).min(metal.total.ln());
+            }
+            if follow {
+                let next = self.ionic + b[k + 1] / scale;
+                if !next.is_finite() {
+                    return None;
+                }
+                self.set_ionic_strength(next.max(0.0));
             }
         }
         None
@@ -387,6 +474,7 @@ impl<'a> ChargeBalance<'a> {
         d.q_start.clear();
         d.mean.clear();
         d.variance.clear();
+        d.charge_moments.clear();
         let mut offset = 0;
         for &(system, _) in &self.composition.systems {
             let n = self.constants.ka(system).len();
@@ -402,14 +490,22 @@ impl<'a> ChargeBalance<'a> {
             }
             offset += n;
             let inv = 1.0 / sum;
-            let (mut m1, mut m2) = (0.0, 0.0);
+            let z0 = f64::from(self.constants.z0(system));
+            let (mut m1, mut m2, mut z2, mut jz2, mut z4) = (0.0, 0.0, 0.0, 0.0, 0.0);
             for (j, x) in d.q[start..].iter_mut().enumerate() {
                 *x *= inv;
-                m1 += j as f64 * *x;
-                m2 += (j * j) as f64 * *x;
+                let jf = j as f64;
+                let zz = (z0 - jf) * (z0 - jf);
+                m1 += jf * *x;
+                m2 += jf * jf * *x;
+                z2 += zz * *x;
+                jz2 += jf * zz * *x;
+                z4 += zz * zz * *x;
             }
             d.mean.push(m1);
             d.variance.push((m2 - m1 * m1).max(0.0));
+            d.charge_moments
+                .push([z2, jz2 - m1 * z2, (z4 - z2 * z2).max(0.0)]);
         }
     }
 
@@ -422,6 +518,8 @@ impl<'a> ChargeBalance<'a> {
             q_start: &self.dist.q_start,
             mean: &self.dist.mean,
             variance: &self.dist.variance,
+            charge_moments: &self.dist.charge_moments,
+            lambda: self.lambda,
             totals: &self.totals,
             oh,
             ph: inv_h.log10(),

@@ -17,6 +17,8 @@ pub struct Metal {
     pub slot: usize,
     /// Total molality.
     pub total: f64,
+    /// Its charge squared.
+    pub z2: f64,
 }
 
 /// What a complex binds.
@@ -42,6 +44,11 @@ pub struct Bound {
     pub metal: usize,
     /// The ligand.
     pub ligand: Ligand,
+    /// The complex's charge squared.
+    pub z2: f64,
+    /// z² of the complex less z² of its metal: with the ligand's own distribution, how its
+    /// conditional formation moves with the Davies function.
+    pub dz2: f64,
 }
 
 /// The metals and complexes of one composition.
@@ -96,6 +103,7 @@ impl Binding {
                     b.metals.push(Metal {
                         slot: ion_slot,
                         total: composition.ions[ion_slot].1,
+                        z2: f64::from(constants.ion_charges[c.metal].pow(2)),
                     });
                     b.metals.len() - 1
                 }
@@ -105,10 +113,13 @@ impl Binding {
                 Ligand::Hydroxide => b.hydroxo.push(k),
                 Ligand::Form { slot, .. } => b.by_slot[slot].push(k),
             }
+            let z2 = f64::from(c.charge * c.charge);
             b.complexes.push(Bound {
                 constant: index,
                 metal,
                 ligand,
+                z2,
+                dz2: z2 - f64::from(constants.ion_charges[c.metal].pow(2)),
             });
         }
         b
@@ -148,6 +159,9 @@ pub struct BoundState {
     dsum_ja: Vec<f64>,
     dr: Vec<f64>,
     dfdp: Vec<f64>,
+    dfdphi: Vec<f64>,
+    /// d(Σ z²m of the bound and ligand species)/d(pH, ln m, φ) at fixed everything else.
+    dz2: Vec<f64>,
     /// pH of the last solve and d(ln m)/dpH there: the first-order start of the next solve.
     last_ph: Option<f64>,
     du_dp: Vec<f64>,
@@ -165,6 +179,12 @@ pub struct Linearization<'s> {
     pub drdp: f64,
     /// ∂R/∂u of the bound part.
     pub drdu: &'s [f64],
+    /// ∂R/∂φ of the bound part (φ the Davies function of the ionic strength).
+    pub drdphi: f64,
+    /// ∂F/∂φ.
+    pub dfdphi: &'s [f64],
+    /// ∂(Σ z²m)/∂(pH, ln m…, φ) of the ligand, metal and complex species.
+    pub dz2: &'s [f64],
 }
 
 /// Inputs of one bound-state evaluation.
@@ -179,6 +199,11 @@ pub struct Inputs<'a> {
     pub mean: &'a [f64],
     /// Var(j) of each slot.
     pub variance: &'a [f64],
+    /// ⟨z²⟩, Cov(j, z²) and Var(z²) of each slot's free distribution.
+    pub charge_moments: &'a [[f64; 3]],
+    /// ln 10 · A of the Davies equation (0 when the coefficients do not follow it): with
+    /// ln γ = −λ z² φ, the rate the distributions move with φ.
+    pub lambda: f64,
     /// Total of each slot.
     pub totals: &'a [f64],
     /// Free OH⁻ molality.
@@ -269,7 +294,11 @@ impl Binding {
     /// Metal residuals F, Jacobian ∂F/∂u and the bound state at `u`.
     fn residuals(&self, inputs: &Inputs<'_>, u: &[f64], st: &mut BoundState) {
         let k = self.metals.len();
-        let d = k + 1; // derivative index 0 = pH, 1.. = ln m
+        // Derivative index 0 = pH, 1..=k = ln m, k + 1 = φ (the Davies function).
+        let d = k + 2;
+        let phi = k + 1;
+        let lambda = inputs.lambda;
+        st.dz2.iter_mut().for_each(|x| *x = 0.0);
         for (((free, f), x), m) in st.free.iter_mut().zip(&mut st.f).zip(u).zip(&self.metals) {
             *free = x.exp();
             *f = *free - m.total;
@@ -284,11 +313,15 @@ impl Binding {
             let list = &self.by_slot[slot];
             let total = inputs.totals[slot];
             let mean = inputs.mean[slot];
+            let [mz2, cov_jz2, var_z2] = inputs.charge_moments[slot];
             let dps = &mut st.dp_slot[slot * d..(slot + 1) * d];
             dps.iter_mut().for_each(|x| *x = 0.0);
             if list.is_empty() {
                 st.protons_removed[slot] = total * mean;
                 dps[0] = total * LN10 * inputs.variance[slot];
+                dps[phi] = total * lambda * cov_jz2;
+                st.dz2[0] += total * LN10 * cov_jz2;
+                st.dz2[phi] += total * lambda * var_z2;
                 continue;
             }
             let q = &inputs.q[inputs.q_start[slot]..];
@@ -312,6 +345,7 @@ impl Binding {
                 let w = st.complex[c] / denom;
                 st.dln_d[0] += w * LN10 * (form as f64 - mean);
                 st.dln_d[1 + b.metal] += w;
+                st.dln_d[phi] += w * lambda * (b.dz2 - mz2);
             }
             let mut sum_ja = 0.0;
             st.dsum_ja.iter_mut().for_each(|x| *x = 0.0);
@@ -327,21 +361,27 @@ impl Binding {
                     *r = -st.dln_d[n];
                 }
                 row[1 + b.metal] += 1.0;
+                let g = lambda * (b.dz2 - mz2);
+                row[phi] += g;
                 let j = form as f64;
                 sum_ja += j * ac;
                 st.dsum_ja[0] += j * ac * LN10 * (j - mean);
                 st.dsum_ja[1 + b.metal] += j * ac;
+                st.dsum_ja[phi] += j * ac * g;
                 st.complex[c] = ac * s;
             }
             let p_l = s * (mean + sum_ja);
             st.protons_removed[slot] = p_l;
             for (v, out) in dps.iter_mut().enumerate() {
-                let own = if v == 0 {
-                    LN10 * inputs.variance[slot]
+                let (own, own_z2) = if v == 0 {
+                    (LN10 * inputs.variance[slot], LN10 * cov_jz2)
+                } else if v == phi {
+                    (lambda * cov_jz2, lambda * var_z2)
                 } else {
-                    0.0
+                    (0.0, 0.0)
                 };
                 *out = -p_l * st.dln_d[v] + s * (own + st.dsum_ja[v]);
+                st.dz2[v] += s * (own_z2 - st.dln_d[v] * mz2);
             }
         }
         for &c in &self.hydroxo {
@@ -351,6 +391,7 @@ impl Binding {
             row.iter_mut().for_each(|x| *x = 0.0);
             row[0] = LN10;
             row[1 + b.metal] = 1.0;
+            row[phi] = lambda * b.dz2;
         }
         for (c, b) in self.complexes.iter().enumerate() {
             let n = b.metal;
@@ -358,6 +399,13 @@ impl Binding {
             for m in 0..k {
                 st.jac[n * k + m] += st.complex[c] * st.dln_c[c * d + 1 + m];
             }
+            let weight = b.z2 * st.complex[c];
+            for (out, r) in st.dz2.iter_mut().zip(&st.dln_c[c * d..(c + 1) * d]) {
+                *out += weight * r;
+            }
+        }
+        for (n, m) in self.metals.iter().enumerate() {
+            st.dz2[1 + n] += m.z2 * st.free[n];
         }
     }
 
@@ -386,14 +434,17 @@ impl Binding {
             dfdu: &state.jac,
             dfdp: &state.dfdp,
             drdp: state.dr[0],
-            drdu: &state.dr[1..],
+            drdu: &state.dr[1..=self.metals.len()],
+            drdphi: state.dr[self.metals.len() + 1],
+            dfdphi: &state.dfdphi,
+            dz2: &state.dz2,
         }
     }
 
     /// Sets the scratch lengths for this binding.
     fn prepare(&self, state: &mut BoundState) {
         let k = self.metals.len();
-        let d = k + 1;
+        let d = k + 2;
         let resize = |v: &mut Vec<f64>, n: usize| {
             if v.len() != n {
                 v.clear();
@@ -411,6 +462,8 @@ impl Binding {
         resize(&mut state.dsum_ja, d);
         resize(&mut state.dr, d);
         resize(&mut state.dfdp, k);
+        resize(&mut state.dfdphi, k);
+        resize(&mut state.dz2, d);
     }
 
     /// ∂F/∂p, ∂R/∂p and ∂R/∂u at the last residuals, with R's bound part −Σ P_L − Σ hydroxo C,
@@ -423,10 +476,12 @@ impl Binding {
     /// ∂F/∂p, ∂R/∂p and ∂R/∂u at the last residuals.
     fn partials(&self, st: &mut BoundState) {
         let k = self.metals.len();
-        let d = k + 1;
+        let d = k + 2;
         st.dfdp.iter_mut().for_each(|x| *x = 0.0);
+        st.dfdphi.iter_mut().for_each(|x| *x = 0.0);
         for (c, b) in self.complexes.iter().enumerate() {
             st.dfdp[b.metal] += st.complex[c] * st.dln_c[c * d];
+            st.dfdphi[b.metal] += st.complex[c] * st.dln_c[c * d + k + 1];
         }
         st.dr.iter_mut().for_each(|x| *x = 0.0);
         for slot in 0..self.by_slot.len() {
