@@ -153,7 +153,9 @@ pub struct BoundState {
     jac: Vec<f64>,
     work: Vec<f64>,
     step: Vec<f64>,
-    dln_c: Vec<f64>,
+    metal_sum: Vec<f64>,
+    /// λ of the last residuals.
+    lambda: f64,
     dp_slot: Vec<f64>,
     dln_d: Vec<f64>,
     dsum_ja: Vec<f64>,
@@ -291,34 +293,45 @@ impl Binding {
             .fold(0.0, f64::max)
     }
 
-    /// Metal residuals F, Jacobian ∂F/∂u and the bound state at `u`.
+    /// Metal residuals F, Jacobian ∂F/∂u, ∂F/∂pH, ∂F/∂φ and the bound state at `u`.
+    ///
+    /// A complex c of a ligand slot has d ln C_c = (own terms) − d ln D, with D the slot's
+    /// denominator 1 + Σ a_c, so its contributions are summed per slot and metal: no dense row
+    /// per complex is built.
     fn residuals(&self, inputs: &Inputs<'_>, u: &[f64], st: &mut BoundState) {
         let k = self.metals.len();
         // Derivative index 0 = pH, 1..=k = ln m, k + 1 = φ (the Davies function).
         let d = k + 2;
         let phi = k + 1;
         let lambda = inputs.lambda;
-        st.dz2.iter_mut().for_each(|x| *x = 0.0);
-        for (((free, f), x), m) in st.free.iter_mut().zip(&mut st.f).zip(u).zip(&self.metals) {
+        st.lambda = lambda;
+        st.dz2.fill(0.0);
+        st.dfdp.fill(0.0);
+        st.dfdphi.fill(0.0);
+        st.jac.fill(0.0);
+        for (n, ((free, f), (x, m))) in st
+            .free
+            .iter_mut()
+            .zip(st.f.iter_mut())
+            .zip(u.iter().zip(&self.metals))
+            .enumerate()
+        {
             *free = x.exp();
             *f = *free - m.total;
+            st.jac[n * k + n] = *free;
+            st.dz2[1 + n] += m.z2 * *free;
         }
-        st.jac.iter_mut().for_each(|x| *x = 0.0);
-        for n in 0..k {
-            st.jac[n * k + n] = st.free[n];
-        }
-        st.free_total.clear();
-        st.free_total.extend_from_slice(inputs.totals);
-        for slot in 0..self.by_slot.len() {
-            let list = &self.by_slot[slot];
+        st.free_total.copy_from_slice(inputs.totals);
+        for (slot, list) in self.by_slot.iter().enumerate() {
             let total = inputs.totals[slot];
             let mean = inputs.mean[slot];
+            let variance = inputs.variance[slot];
             let [mz2, cov_jz2, var_z2] = inputs.charge_moments[slot];
             let dps = &mut st.dp_slot[slot * d..(slot + 1) * d];
-            dps.iter_mut().for_each(|x| *x = 0.0);
+            dps.fill(0.0);
             if list.is_empty() {
                 st.protons_removed[slot] = total * mean;
-                dps[0] = total * LN10 * inputs.variance[slot];
+                dps[0] = total * LN10 * variance;
                 dps[phi] = total * lambda * cov_jz2;
                 st.dz2[0] += total * LN10 * cov_jz2;
                 st.dz2[phi] += total * lambda * var_z2;
@@ -327,7 +340,7 @@ impl Binding {
             let q = &inputs.q[inputs.q_start[slot]..];
             let mut denom = 1.0;
             for &c in list {
-                let b = self.complexes[c];
+                let b = &self.complexes[c];
                 if let Ligand::Form { form, .. } = b.ligand {
                     let ac = inputs.k_cond[c] * q[form] * st.free[b.metal];
                     st.complex[c] = ac;
@@ -336,76 +349,89 @@ impl Binding {
             }
             let s = total / denom;
             st.free_total[slot] = s;
-            st.dln_d.iter_mut().for_each(|x| *x = 0.0);
-            for &c in list {
-                let b = self.complexes[c];
-                let Ligand::Form { form, .. } = b.ligand else {
-                    continue;
-                };
-                let w = st.complex[c] / denom;
-                st.dln_d[0] += w * LN10 * (form as f64 - mean);
-                st.dln_d[1 + b.metal] += w;
-                st.dln_d[phi] += w * lambda * (b.dz2 - mz2);
-            }
+            let inv_denom = 1.0 / denom;
+            st.dln_d.fill(0.0);
+            st.dsum_ja.fill(0.0);
+            st.metal_sum.fill(0.0);
             let mut sum_ja = 0.0;
-            st.dsum_ja.iter_mut().for_each(|x| *x = 0.0);
+            let mut z2_sum = 0.0;
             for &c in list {
-                let b = self.complexes[c];
+                let b = &self.complexes[c];
                 let Ligand::Form { form, .. } = b.ligand else {
                     continue;
                 };
                 let ac = st.complex[c];
-                let row = &mut st.dln_c[c * d..(c + 1) * d];
-                row[0] = LN10 * (form as f64 - mean) - st.dln_d[0];
-                for (n, r) in row.iter_mut().enumerate().skip(1) {
-                    *r = -st.dln_d[n];
-                }
-                row[1 + b.metal] += 1.0;
-                let g = lambda * (b.dz2 - mz2);
-                row[phi] += g;
                 let j = form as f64;
+                // Own parts of d ln a_c: pH, ln m of its metal (1), φ.
+                let own_p = LN10 * (j - mean);
+                let own_phi = lambda * (b.dz2 - mz2);
+                let w = ac * inv_denom;
+                st.dln_d[0] += w * own_p;
+                st.dln_d[1 + b.metal] += w;
+                st.dln_d[phi] += w * own_phi;
                 sum_ja += j * ac;
-                st.dsum_ja[0] += j * ac * LN10 * (j - mean);
+                st.dsum_ja[0] += j * ac * own_p;
                 st.dsum_ja[1 + b.metal] += j * ac;
-                st.dsum_ja[phi] += j * ac * g;
-                st.complex[c] = ac * s;
+                st.dsum_ja[phi] += j * ac * own_phi;
+                let amount = ac * s;
+                st.complex[c] = amount;
+                let n = b.metal;
+                st.f[n] += amount;
+                st.jac[n * k + n] += amount;
+                st.dfdp[n] += amount * own_p;
+                st.dfdphi[n] += amount * own_phi;
+                st.metal_sum[n] += amount;
+                let zc = b.z2 * amount;
+                st.dz2[0] += zc * own_p;
+                st.dz2[1 + n] += zc;
+                st.dz2[phi] += zc * own_phi;
+                z2_sum += zc;
+            }
+            // The −d ln D part every complex of the slot shares.
+            for (n, &held) in st.metal_sum.iter().enumerate() {
+                if held == 0.0 {
+                    continue;
+                }
+                st.dfdp[n] -= held * st.dln_d[0];
+                st.dfdphi[n] -= held * st.dln_d[phi];
+                for (x, g) in st.jac[n * k..(n + 1) * k].iter_mut().zip(&st.dln_d[1..=k]) {
+                    *x -= held * g;
+                }
             }
             let p_l = s * (mean + sum_ja);
             st.protons_removed[slot] = p_l;
-            for (v, out) in dps.iter_mut().enumerate() {
+            for (v, ((out, z2_out), (&g, &sja))) in dps
+                .iter_mut()
+                .zip(st.dz2.iter_mut())
+                .zip(st.dln_d.iter().zip(&st.dsum_ja))
+                .enumerate()
+            {
                 let (own, own_z2) = if v == 0 {
-                    (LN10 * inputs.variance[slot], LN10 * cov_jz2)
+                    (LN10 * variance, LN10 * cov_jz2)
                 } else if v == phi {
                     (lambda * cov_jz2, lambda * var_z2)
                 } else {
                     (0.0, 0.0)
                 };
-                *out = -p_l * st.dln_d[v] + s * (own + st.dsum_ja[v]);
-                st.dz2[v] += s * (own_z2 - st.dln_d[v] * mz2);
+                *out = -p_l * g + s * (own + sja);
+                *z2_out += s * (own_z2 - g * mz2) - z2_sum * g;
             }
         }
         for &c in &self.hydroxo {
-            let b = self.complexes[c];
-            st.complex[c] = inputs.k_cond[c] * st.free[b.metal] * inputs.oh;
-            let row = &mut st.dln_c[c * d..(c + 1) * d];
-            row.iter_mut().for_each(|x| *x = 0.0);
-            row[0] = LN10;
-            row[1 + b.metal] = 1.0;
-            row[phi] = lambda * b.dz2;
-        }
-        for (c, b) in self.complexes.iter().enumerate() {
+            let b = &self.complexes[c];
             let n = b.metal;
-            st.f[n] += st.complex[c];
-            for m in 0..k {
-                st.jac[n * k + m] += st.complex[c] * st.dln_c[c * d + 1 + m];
-            }
-            let weight = b.z2 * st.complex[c];
-            for (out, r) in st.dz2.iter_mut().zip(&st.dln_c[c * d..(c + 1) * d]) {
-                *out += weight * r;
-            }
-        }
-        for (n, m) in self.metals.iter().enumerate() {
-            st.dz2[1 + n] += m.z2 * st.free[n];
+            let amount = inputs.k_cond[c] * st.free[n] * inputs.oh;
+            st.complex[c] = amount;
+            // d ln C: pH ln 10, ln m 1, φ λ (z_C² − z_M²).
+            let own_phi = lambda * b.dz2;
+            st.f[n] += amount;
+            st.jac[n * k + n] += amount;
+            st.dfdp[n] += amount * LN10;
+            st.dfdphi[n] += amount * own_phi;
+            let zc = b.z2 * amount;
+            st.dz2[0] += zc * LN10;
+            st.dz2[1 + n] += zc;
+            st.dz2[phi] += zc * own_phi;
         }
     }
 
@@ -455,7 +481,8 @@ impl Binding {
         resize(&mut state.jac, k * k);
         resize(&mut state.free, k);
         resize(&mut state.complex, self.complexes.len());
-        resize(&mut state.dln_c, self.complexes.len() * d);
+        resize(&mut state.metal_sum, k);
+        resize(&mut state.free_total, self.by_slot.len());
         resize(&mut state.dp_slot, self.by_slot.len() * d);
         resize(&mut state.protons_removed, self.by_slot.len());
         resize(&mut state.dln_d, d);
@@ -473,26 +500,22 @@ impl Binding {
         self.closing(st);
     }
 
-    /// ∂F/∂p, ∂R/∂p and ∂R/∂u at the last residuals.
+    /// ∂R/∂p, ∂R/∂u and ∂R/∂φ at the last residuals (∂F/∂p and ∂F/∂φ come with them).
     fn partials(&self, st: &mut BoundState) {
         let k = self.metals.len();
         let d = k + 2;
-        st.dfdp.iter_mut().for_each(|x| *x = 0.0);
-        st.dfdphi.iter_mut().for_each(|x| *x = 0.0);
-        for (c, b) in self.complexes.iter().enumerate() {
-            st.dfdp[b.metal] += st.complex[c] * st.dln_c[c * d];
-            st.dfdphi[b.metal] += st.complex[c] * st.dln_c[c * d + k + 1];
-        }
-        st.dr.iter_mut().for_each(|x| *x = 0.0);
-        for slot in 0..self.by_slot.len() {
-            for v in 0..d {
-                st.dr[v] -= st.dp_slot[slot * d + v];
+        st.dr.fill(0.0);
+        for dps in st.dp_slot.chunks_exact(d) {
+            for (r, x) in st.dr.iter_mut().zip(dps) {
+                *r -= x;
             }
         }
         for &c in &self.hydroxo {
-            for v in 0..d {
-                st.dr[v] -= st.complex[c] * st.dln_c[c * d + v];
-            }
+            let b = &self.complexes[c];
+            let amount = st.complex[c];
+            st.dr[0] -= amount * LN10;
+            st.dr[1 + b.metal] -= amount;
+            st.dr[k + 1] -= amount * st.lambda * b.dz2;
         }
         st.partial_p = st.dr[0];
     }
@@ -521,11 +544,16 @@ impl Binding {
 
 /// Solves a·x = b in place (k×k, row-major) by Gaussian elimination with partial pivoting.
 pub fn solve_linear(a: &mut [f64], b: &mut [f64], k: usize) -> bool {
+    let (a, b) = (&mut a[..k * k], &mut b[..k]);
     for col in 0..k {
-        let pivot = (col..k)
-            .max_by(|&i, &j| a[i * k + col].abs().total_cmp(&a[j * k + col].abs()))
-            .unwrap_or(col);
-        if a[pivot * k + col].abs() < f64::MIN_POSITIVE || !a[pivot * k + col].is_finite() {
+        let mut pivot = col;
+        for i in col + 1..k {
+            if a[i * k + col].abs() > a[pivot * k + col].abs() {
+                pivot = i;
+            }
+        }
+        let p = a[pivot * k + col];
+        if p.abs() < f64::MIN_POSITIVE || !p.is_finite() {
             return false;
         }
         if pivot != col {
@@ -534,20 +562,28 @@ pub fn solve_linear(a: &mut [f64], b: &mut [f64], k: usize) -> bool {
             }
             b.swap(col, pivot);
         }
-        for row in col + 1..k {
-            let factor = a[row * k + col] / a[col * k + col];
-            for j in col..k {
-                a[row * k + j] -= factor * a[col * k + j];
+        let (upper, lower) = a.split_at_mut((col + 1) * k);
+        let pivot_row = &upper[col * k + col..col * k + k];
+        let inv = 1.0 / pivot_row[0];
+        let b_col = b[col];
+        for (r, row) in lower.chunks_exact_mut(k).enumerate() {
+            let factor = row[col] * inv;
+            if factor == 0.0 {
+                continue;
             }
-            b[row] -= factor * b[col];
+            for (x, y) in row[col..].iter_mut().zip(pivot_row) {
+                *x -= factor * y;
+            }
+            b[col + 1 + r] -= factor * b_col;
         }
     }
     for col in (0..k).rev() {
+        let row = &a[col * k..(col + 1) * k];
         let mut v = b[col];
-        for j in col + 1..k {
-            v -= a[col * k + j] * b[j];
+        for (x, y) in row[col + 1..].iter().zip(&b[col + 1..]) {
+            v -= x * y;
         }
-        b[col] = v / a[col * k + col];
+        b[col] = v / row[col];
     }
     b.iter().all(|v| v.is_finite())
 }

@@ -24,9 +24,13 @@ impl Gammas {
         // log γ is proportional to z², so γ(z) = γ(1)^(z²).
         let g1 = 10f64.powf(super::activity::log_gamma(model, constants.davies_a, 1, f));
         let mut gamma = [1.0; (2 * MAX_CHARGE + 1) as usize];
-        for (i, g) in gamma.iter_mut().enumerate() {
-            let z = i as i32 - MAX_CHARGE;
-            *g = g1.powi(z * z);
+        // γ(z) = γ(1)^(z²), with z² = (z − 1)² + (2z − 1): two products per charge.
+        let (mut power, mut odd, g2) = (1.0, g1, g1 * g1);
+        for z in 1..=MAX_CHARGE {
+            power *= odd;
+            odd *= g2;
+            gamma[(MAX_CHARGE + z) as usize] = power;
+            gamma[(MAX_CHARGE - z) as usize] = power;
         }
         Self { gamma }
     }
