@@ -438,6 +438,11 @@ pub fn solve_near(
 pub struct Sequence<'a> {
     constants: &'a Constants,
     balance: Option<balance::ChargeBalance<'a>>,
+    /// ln free metals of the last (up to) three states solved, latest first: the next start is
+    /// their extrapolation, as the pH's is.
+    history: Vec<Vec<f64>>,
+    /// Scratch of the extrapolated start.
+    start_u: Vec<f64>,
 }
 
 impl<'a> Sequence<'a> {
@@ -446,7 +451,25 @@ impl<'a> Sequence<'a> {
         Self {
             constants,
             balance: None,
+            history: Vec::with_capacity(3),
+            start_u: Vec::new(),
         }
+    }
+
+    /// The free metals' start extrapolated from the states before (each step at most ±2 in
+    /// ln m from the last).
+    fn extrapolated_metals(&mut self) -> Option<&[f64]> {
+        let last = self.history.first()?;
+        self.start_u.clear();
+        for (i, &a) in last.iter().enumerate() {
+            let step = match (self.history.get(1), self.history.get(2)) {
+                (Some(b), Some(c)) => 2.0 * (a - b[i]) - (b[i] - c[i]),
+                (Some(b), None) => a - b[i],
+                _ => 0.0,
+            };
+            self.start_u.push(a + step.clamp(-2.0, 2.0));
+        }
+        Some(&self.start_u)
     }
 
     /// [`solve_near`] of `composition`, reusing the last balance when the shape allows.
@@ -464,7 +487,13 @@ impl<'a> Sequence<'a> {
             .balance
             .as_mut()
             .is_some_and(|b| b.model() == activity && b.retarget(composition));
-        if !kept {
+        if kept {
+            let start = self.extrapolated_metals().map(<[f64]>::to_vec);
+            if let (Some(u), Some(b)) = (start, self.balance.as_mut()) {
+                b.set_free_metals(&u);
+            }
+        } else {
+            self.history.clear();
             let mut model =
                 balance::ChargeBalance::with_model(self.constants, composition, activity);
             if let Some(n) = near {
@@ -479,11 +508,16 @@ impl<'a> Sequence<'a> {
             .map_or(0.5 * composition.spectator_z2, |g| g.ionic_strength)
             .max(0.0);
         let start_ph = guess.map_or(7.0, |g| g.ph);
-        if model.is_pitzer() {
+        let solution = if model.is_pitzer() {
             solve_pitzer(model, start_ph, start_ionic)
         } else {
             solve_by_charge(model, activity, start_ph, start_ionic)
+        };
+        if self.history.len() == 3 {
+            self.history.pop();
         }
+        self.history.insert(0, solution.free_metals.clone());
+        solution
     }
 }
 
