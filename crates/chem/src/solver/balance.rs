@@ -361,7 +361,8 @@ impl<'a> ChargeBalance<'a> {
             } else {
                 0.0
             };
-            if ionic_gap.abs() <= super::IONIC_TOL * (1.0 + self.ionic)
+            // Without `follow` the coefficients are held (under Pitzer `ionic` is NaN).
+            if (!follow || ionic_gap.abs() <= super::IONIC_TOL * (1.0 + self.ionic))
                 && e.residual.abs() <= REL_TOL * e.scale
                 && self.state.metal_residual <= METAL_TOL
             {
