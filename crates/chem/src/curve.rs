@@ -207,11 +207,15 @@ impl<'a> Doser<'a> {
         let compositions: Vec<Composition> = doses.iter().map(|&d| self.composition(d)).collect();
         let mut sequence = solver::Sequence::new(self.constants);
         let mut out = Vec::with_capacity(n);
-        // Each solve starts from the extrapolation of the (up to) three before it.
-        let mut last: Vec<(f64, f64)> = Vec::with_capacity(3);
+        // Each solve starts from the (cubic) extrapolation of the (up to) four before it.
+        let mut last: Vec<(f64, f64)> = Vec::with_capacity(4);
         let mut previous: Option<Solution> = None;
         for (i, (&dose_g, composition)) in doses.iter().zip(&compositions).enumerate() {
             let guess = match last.as_slice() {
+                [a, b, c, d] => Some(Guess {
+                    ph: a.0 + (3.0 * a.0 - 6.0 * b.0 + 4.0 * c.0 - d.0).clamp(-1.0, 1.0),
+                    ionic_strength: (4.0 * a.1 - 6.0 * b.1 + 4.0 * c.1 - d.1).max(0.0),
+                }),
                 [a, b, c] => Some(Guess {
                     ph: a.0 + (2.0 * (a.0 - b.0) - (b.0 - c.0)).clamp(-1.0, 1.0),
                     ionic_strength: (3.0 * a.1 - 3.0 * b.1 + c.1).max(0.0),
@@ -231,7 +235,7 @@ impl<'a> Doser<'a> {
             } else {
                 sequence.solve(composition, guess, self.activity, previous.as_ref())
             };
-            if last.len() == 3 {
+            if last.len() == 4 {
                 last.pop();
             }
             last.insert(0, (s.ph, s.ionic_strength));
