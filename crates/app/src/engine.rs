@@ -9,11 +9,12 @@ use std::cell::Cell;
 use std::collections::BTreeMap;
 
 use egui_plot::PlotPoint;
-use saltwise_chem::library::{LibraryData, form_names};
+use saltwise_chem::library::LibraryData;
 use saltwise_chem::project::{Project, Settings};
 use saltwise_chem::report::{self, Report};
-use saltwise_chem::solver::{self, Conditions, Constants};
+use saltwise_chem::solver::{Conditions, Constants};
 use saltwise_chem::{Amount, Library, Recipe, Unit};
+use saltwise_export::SpeciesChart;
 
 use saltwise_chem::curve::Doser;
 pub use saltwise_chem::curve::{CurvePoint, DoseResult, EquivalencePoint};
@@ -33,8 +34,6 @@ use crate::band_job::{self, BandJob, BandKey, BandState};
 const CURVE_POINTS: usize = 161;
 /// Points on the predicted QC titration curve.
 const QC_POINTS: usize = 81;
-/// pH step of the species chart.
-const SPECIES_PH_STEP: f64 = 0.05;
 
 /// The dose curve of one adjuster on the current recipe.
 #[derive(Debug, Clone, PartialEq)]
@@ -871,36 +870,22 @@ fn species_data(
     report: &Report,
     settings: &Settings,
 ) -> Option<SpeciesData> {
-    let chosen = settings.species_system.as_deref();
-    let present = |id: &str| {
-        report.systems.iter().find(|s| {
-            library
-                .systems()
-                .get(s.system)
-                .is_some_and(|sys| sys.id == id)
-        })
-    };
-    let state = chosen
-        .and_then(present)
-        .or_else(|| report.systems.first())?;
+    let state = report.shown_system(library, settings.species_system.as_deref())?;
     let system = library.systems().get(state.system)?;
-    let ionic_strength = report.solution.ionic_strength;
-    let steps = (14.0 / SPECIES_PH_STEP).round() as usize;
-    let table = solver::fractions_against_ph(
-        constants,
-        state.system,
-        ionic_strength,
-        (0..=steps).map(|i| i as f64 * SPECIES_PH_STEP),
-    );
-    let forms = form_names(system);
-    let curves = (0..forms.len())
-        .map(|j| {
-            table
+    let chart = SpeciesChart::compute(library, constants, report, Some(&system.id))?;
+    let curves = chart
+        .fractions
+        .iter()
+        .map(|f| {
+            chart
+                .ph
                 .iter()
-                .map(|(ph, f)| PlotPoint::new(*ph, f.get(j).copied().unwrap_or(0.0)))
+                .zip(f)
+                .map(|(&ph, &x)| PlotPoint::new(ph, x))
                 .collect()
         })
         .collect();
+    let (forms, ionic_strength) = (chart.forms, chart.ionic_strength);
     Some(SpeciesData {
         system: state.system,
         system_id: system.id.clone(),

@@ -29,6 +29,22 @@ pub struct Report {
     pub warnings: Vec<String>,
 }
 
+impl Report {
+    /// The system a species view shows: `system_id` if the recipe holds it, else the recipe's
+    /// first system; `None` when the recipe has no acid–base system.
+    pub fn shown_system(&self, library: &Library, system_id: Option<&str>) -> Option<&SystemState> {
+        let present = |id: &str| {
+            self.systems.iter().find(|s| {
+                library
+                    .systems()
+                    .get(s.system)
+                    .is_some_and(|sys| sys.id == id)
+            })
+        };
+        system_id.and_then(present).or_else(|| self.systems.first())
+    }
+}
+
 /// Checks that a temperature is inside the model's range.
 pub fn check_temperature(temp_c: f64) -> Result<(), RecipeError> {
     if crate::limits::TEMPERATURE_C.allows(temp_c) {

@@ -146,17 +146,7 @@ impl SpeciesChart {
         report: &Report,
         system_id: Option<&str>,
     ) -> Option<Self> {
-        let present = |id: &str| {
-            report.systems.iter().find(|s| {
-                library
-                    .systems()
-                    .get(s.system)
-                    .is_some_and(|sys| sys.id == id)
-            })
-        };
-        let state = system_id
-            .and_then(present)
-            .or_else(|| report.systems.first())?;
+        let state = report.shown_system(library, system_id)?;
         let system = library.systems().get(state.system)?;
         let ionic_strength = report.solution.ionic_strength;
         let steps = (14.0 / SPECIES_PH_STEP).round() as usize;
