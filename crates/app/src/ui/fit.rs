@@ -2,7 +2,7 @@
 //! their residuals, the unknowns fitted with standard errors, and the fitted ingredient saved.
 
 use egui::{RichText, Role, Ui};
-use egui_plot::{Legend, Line, MarkerShape, Plot, Points};
+use egui_plot::{Line, MarkerShape, Plot, Points};
 use saltwise_chem::Library;
 use saltwise_chem::fit::Fit;
 use saltwise_chem::measured::MeasuredTitration;
@@ -13,8 +13,6 @@ use crate::command::Command;
 use crate::engine::Engine;
 use crate::measured::FitForm;
 
-/// Height of the readings chart, points.
-const CHART_HEIGHT: f32 = 220.0;
 /// Height of the residual chart, points.
 const RESIDUAL_HEIGHT: f32 = 110.0;
 
@@ -172,36 +170,27 @@ fn chart_ui(ui: &mut Ui, engine: &Engine, t: &MeasuredTitration, fit: Option<&Fi
         _ => None,
     };
     let current = super::current_color(ui);
-    Plot::new("fit_plot")
-        .height(CHART_HEIGHT)
-        .x_axis_label("Titrant, mL")
-        .y_axis_label("pH")
-        .legend(Legend::default())
-        .include_x(0.0)
-        .allow_scroll(false)
-        .allow_zoom(false)
-        .allow_drag(false)
-        .show(ui, |plot| {
-            if let Some(p) = predicted {
-                plot.line(
-                    Line::new("Predicted from the recipe", p)
-                        .width(1.5)
-                        .style(egui_plot::LineStyle::dashed_loose())
-                        .color(super::PH_LINE),
-                );
-            }
-            if let Some(f) = fit {
-                let curve: Vec<[f64; 2]> = f.curve.iter().map(|p| [p.ml, p.ph]).collect();
-                plot.line(Line::new("Fitted", curve).width(2.0).color(super::PH_LINE));
-            }
-            plot.points(
-                Points::new("Measured", measured)
-                    .shape(MarkerShape::Circle)
-                    .radius(3.5)
-                    .filled(true)
-                    .color(current),
+    super::titration_plot("fit_plot").show(ui, |plot| {
+        if let Some(p) = predicted {
+            plot.line(
+                Line::new("Predicted from the recipe", p)
+                    .width(1.5)
+                    .style(egui_plot::LineStyle::dashed_loose())
+                    .color(super::PH_LINE),
             );
-        });
+        }
+        if let Some(f) = fit {
+            let curve: Vec<[f64; 2]> = f.curve.iter().map(|p| [p.ml, p.ph]).collect();
+            plot.line(Line::new("Fitted", curve).width(2.0).color(super::PH_LINE));
+        }
+        plot.points(
+            Points::new("Measured", measured)
+                .shape(MarkerShape::Circle)
+                .radius(3.5)
+                .filled(true)
+                .color(current),
+        );
+    });
     if let Some(f) = fit {
         let residuals: Vec<[f64; 2]> = f.residuals.iter().map(|r| [r.ml, r.residual]).collect();
         Plot::new("residual_plot")

@@ -88,6 +88,22 @@ pub const VARIANT: [Color32; 8] = [
 ];
 
 /// The current recipe on any chart: the theme's own strongest text colour.
+/// Height of a titration chart (QC prediction, measured titration), points.
+const TITRATION_CHART_HEIGHT: f32 = 220.0;
+
+/// A fixed (not zoomable) chart of pH against mL of titrant, with a legend, from 0 mL.
+pub fn titration_plot(id: &str) -> egui_plot::Plot<'_> {
+    egui_plot::Plot::new(id)
+        .height(TITRATION_CHART_HEIGHT)
+        .x_axis_label("Titrant, mL")
+        .y_axis_label("pH")
+        .legend(egui_plot::Legend::default())
+        .include_x(0.0)
+        .allow_scroll(false)
+        .allow_zoom(false)
+        .allow_drag(false)
+}
+
 pub fn current_color(ui: &Ui) -> Color32 {
     ui.visuals().strong_text_color()
 }

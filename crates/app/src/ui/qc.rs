@@ -3,7 +3,7 @@
 //! factor and the predicted curve.
 
 use egui::{RichText, Role, Ui};
-use egui_plot::{Legend, Line, MarkerShape, Plot, Points};
+use egui_plot::{Line, MarkerShape, Points};
 use saltwise_chem::Library;
 use saltwise_chem::limits::{
     CARBONATED_PERCENT, END_POINT_PH, IN_USE_SAMPLE_ML, NORMALITY, SAMPLE_G,
@@ -12,9 +12,6 @@ use saltwise_chem::qc::{self, Method, TITRANT_DENSITY_KG_PER_L, TitrantKind};
 
 use super::{Field, PanelState, checked_drag, sig};
 use crate::engine::{Engine, QcData};
-
-/// Height of the titration chart, points.
-const CHART_HEIGHT: f32 = 220.0;
 
 /// Draws the section, closed until asked for; the titration is computed only while it is open.
 pub fn qc_ui(ui: &mut Ui, method: &mut Method, engine: &Engine, panels: &mut PanelState) {
@@ -283,29 +280,20 @@ fn results_ui(ui: &mut Ui, data: &QcData, library: &Library) {
     }
     let curve: Vec<[f64; 2]> = p.points.iter().map(|t| [t.ml, t.ph]).collect();
     let ends: Vec<[f64; 2]> = p.end_points.iter().map(|e| [e.ml, e.ph]).collect();
-    Plot::new("qc_plot")
-        .height(CHART_HEIGHT)
-        .x_axis_label("Titrant, mL")
-        .y_axis_label("pH")
-        .legend(Legend::default())
-        .include_x(0.0)
-        .allow_scroll(false)
-        .allow_zoom(false)
-        .allow_drag(false)
-        .show(ui, |plot| {
-            plot.line(
-                Line::new("Predicted pH", curve)
-                    .width(2.0)
-                    .color(super::PH_LINE),
-            );
-            plot.points(
-                Points::new("End point", ends)
-                    .shape(MarkerShape::Circle)
-                    .radius(5.0)
-                    .filled(false)
-                    .color(super::EQUIVALENCE),
-            );
-        });
+    super::titration_plot("qc_plot").show(ui, |plot| {
+        plot.line(
+            Line::new("Predicted pH", curve)
+                .width(2.0)
+                .color(super::PH_LINE),
+        );
+        plot.points(
+            Points::new("End point", ends)
+                .shape(MarkerShape::Circle)
+                .radius(5.0)
+                .filled(false)
+                .color(super::EQUIVALENCE),
+        );
+    });
 }
 
 #[cfg(test)]

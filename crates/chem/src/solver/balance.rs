@@ -74,6 +74,31 @@ struct Distributions {
     charge_moments: Vec<[f64; 3]>,
 }
 
+impl Distributions {
+    /// The inputs of a bound-state evaluation at these distributions.
+    fn inputs<'s>(
+        &'s self,
+        k_cond: &'s [f64],
+        totals: &'s [f64],
+        lambda: f64,
+        oh: f64,
+        ph: f64,
+    ) -> Inputs<'s> {
+        Inputs {
+            k_cond,
+            q: &self.q,
+            q_start: &self.q_start,
+            mean: &self.mean,
+            variance: &self.variance,
+            charge_moments: &self.charge_moments,
+            lambda,
+            totals,
+            oh,
+            ph,
+        }
+    }
+}
+
 impl<'a> ChargeBalance<'a> {
     /// The balance of a composition under some constants, at I = 0 until set.
     pub fn new(constants: &'a Constants, composition: &'a Composition) -> Self {
@@ -339,18 +364,9 @@ impl<'a> ChargeBalance<'a> {
                 c.spectator_z2 + h_molal + oh_molal,
             ];
             self.distributions(inv_h);
-            let inputs = Inputs {
-                k_cond: &self.k_cond,
-                q: &self.dist.q,
-                q_start: &self.dist.q_start,
-                mean: &self.dist.mean,
-                variance: &self.dist.variance,
-                charge_moments: &self.dist.charge_moments,
-                lambda: self.lambda,
-                totals: &self.totals,
-                oh: oh_molal,
-                ph,
-            };
+            let inputs = self
+                .dist
+                .inputs(&self.k_cond, &self.totals, self.lambda, oh_molal, ph);
             self.binding.linearize(&inputs, &self.u, &mut self.state);
             let e = self.bound_evaluation(h_molal, oh_molal, sums);
             if !e.residual.is_finite() {
@@ -513,18 +529,9 @@ impl<'a> ChargeBalance<'a> {
     /// The bound state at a pH, solving the metal balances from the warm start.
     fn bound(&mut self, inv_h: f64, oh: f64) {
         self.distributions(inv_h);
-        let inputs = Inputs {
-            k_cond: &self.k_cond,
-            q: &self.dist.q,
-            q_start: &self.dist.q_start,
-            mean: &self.dist.mean,
-            variance: &self.dist.variance,
-            charge_moments: &self.dist.charge_moments,
-            lambda: self.lambda,
-            totals: &self.totals,
-            oh,
-            ph: inv_h.log10(),
-        };
+        let inputs = self
+            .dist
+            .inputs(&self.k_cond, &self.totals, self.lambda, oh, inv_h.log10());
         self.binding
             .solve(&inputs, &mut self.u, &mut self.state, METAL_STEPS);
     }
