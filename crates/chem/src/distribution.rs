@@ -80,41 +80,16 @@ pub fn metal_distribution(
         .filter(|&m| m > 0.0)?;
     let mut parts = vec![FREE.to_owned()];
     let mut rows: Vec<(f64, Vec<(String, f64)>)> = Vec::new();
-    for ph in phs {
-        let (left, at, settled) = if settle {
-            let p = precipitation::precipitate_at_ph(library, constants, composition, solution, ph);
-            let settled: f64 = p
-                .formed
-                .iter()
-                .filter_map(|f| {
-                    let s = library.solids().iter().find(|s| s.data.id == f.solid)?;
-                    let count: f64 = s
-                        .components
-                        .iter()
-                        .filter(|(sp, _)| *sp == Species::Ion(ion))
-                        .map(|(_, n)| n)
-                        .sum();
-                    Some(count * f.mol_per_kg_water)
-                })
-                .sum();
-            (p.composition, p.solution, settled)
-        } else {
-            let at = Solution {
-                ph,
-                ..solution.clone()
-            };
-            (composition.clone(), at, 0.0)
-        };
-        let sp = solver::speciation(library, constants, &left, &at);
-        let mut row = vec![(FREE.to_owned(), sp.free(metal) / total)];
-        for c in sp.complexes.iter().filter(|c| c.metal == metal) {
-            let part = part_of(&c.ligand);
+    let mut add = |held: solver::MetalAtPh, settled: Option<f64>| {
+        let mut row = vec![(FREE.to_owned(), held.free / total)];
+        for (ligand, molality) in &held.complexes {
+            let part = part_of(ligand);
             match row.iter_mut().find(|(p, _)| p == part) {
-                Some(entry) => entry.1 += c.molality / total,
-                None => row.push((part.to_owned(), c.molality / total)),
+                Some(entry) => entry.1 += molality / total,
+                None => row.push((part.to_owned(), molality / total)),
             }
         }
-        if settle {
+        if let Some(settled) = settled {
             row.push((SETTLED.to_owned(), settled / total));
         }
         for (p, _) in &row {
@@ -122,8 +97,52 @@ pub fn metal_distribution(
                 parts.push(p.clone());
             }
         }
-        rows.push((ph, row));
+        rows.push((held.ph, row));
+    };
+    let phs: Vec<f64> = phs.into_iter().collect();
+    if !settle {
+        // One balance for the whole sweep, each pH closing the metals from the one before.
+        let held = solver::metal_against_ph(library, constants, composition, solution, ion, phs);
+        for h in held {
+            add(h, None);
+        }
+        return Some(finish(metal, parts, rows));
     }
+    for ph in phs {
+        let p = precipitation::precipitate_at_ph(library, constants, composition, solution, ph);
+        let settled: f64 = p
+            .formed
+            .iter()
+            .filter_map(|f| {
+                let s = library.solids().iter().find(|s| s.data.id == f.solid)?;
+                let count: f64 = s
+                    .components
+                    .iter()
+                    .filter(|(sp, _)| *sp == Species::Ion(ion))
+                    .map(|(_, n)| n)
+                    .sum();
+                Some(count * f.mol_per_kg_water)
+            })
+            .sum();
+        let held =
+            solver::metal_against_ph(library, constants, &p.composition, &p.solution, ion, [ph]);
+        // All of the metal may have settled out.
+        let held = held.into_iter().next().unwrap_or(solver::MetalAtPh {
+            ph,
+            free: 0.0,
+            complexes: Vec::new(),
+        });
+        add(held, Some(settled));
+    }
+    Some(finish(metal, parts, rows))
+}
+
+/// The distribution from its rows: every part at every pH (0 where a row lacks it).
+fn finish(
+    metal: &str,
+    mut parts: Vec<String>,
+    rows: Vec<(f64, Vec<(String, f64)>)>,
+) -> MetalDistribution {
     // Hydroxide and the settled part last, so the ligands come in the order first seen.
     for last in [HYDROXO, SETTLED] {
         if let Some(i) = parts.iter().position(|p| p == last) {
@@ -141,9 +160,9 @@ pub fn metal_distribution(
             (ph, shares)
         })
         .collect();
-    Some(MetalDistribution {
+    MetalDistribution {
         metal: metal.to_owned(),
         parts,
         points,
-    })
+    }
 }

@@ -88,3 +88,62 @@ fn with_settling_calcium_carbonate_leaves_solution_only_where_carbonate_is_there
         assert!((sum - 1.0).abs() < 1e-9, "pH {ph}: {sum}");
     }
 }
+
+#[test]
+fn a_sweep_holds_the_same_amounts_as_the_speciation_at_each_ph() {
+    let lib = Library::built_in().unwrap();
+    // An invented hard-water base: Ca and Mg with EDTA and citrate.
+    let recipe = Recipe::in_grams(&[
+        ("water", 990.0),
+        ("calcium_chloride_dihydrate", 0.6),
+        ("magnesium_sulfate_heptahydrate", 0.5),
+        ("tetrasodium_edta_39", 4.0),
+        ("trisodium_citrate_dihydrate", 5.0),
+    ]);
+    let c = Conditions {
+        activity: ActivityModel::Davies,
+        ..Conditions::default()
+    };
+    let report = evaluate(&lib, &recipe, c).unwrap();
+    let constants = Constants::new(&lib, c);
+    let phs: Vec<f64> = (0..=28).map(|i| f64::from(i) * 0.5).collect();
+    let d = metal_distribution(
+        &lib,
+        &constants,
+        &report.composition,
+        &report.solution,
+        "magnesium",
+        phs.iter().copied(),
+        false,
+    )
+    .unwrap();
+    let ion = lib.ion_index("magnesium").unwrap();
+    let total = report
+        .composition
+        .ions
+        .iter()
+        .find(|&&(i, _)| i == ion)
+        .unwrap()
+        .1;
+    // The sweep closes the balances from one pH to the next; each point must be the state a
+    // speciation at that pH alone finds (both closed to 1e-14, so within 1e-10 of the total).
+    for (k, &ph) in phs.iter().enumerate() {
+        let at = saltwise_chem::solver::Solution {
+            ph,
+            ..report.solution.clone()
+        };
+        let sp = saltwise_chem::solver::speciation(&lib, &constants, &report.composition, &at);
+        assert!(
+            (d.points[k].1[0] - sp.free("magnesium") / total).abs() < 1e-10,
+            "pH {ph}"
+        );
+        let bound: f64 = sp
+            .complexes
+            .iter()
+            .filter(|x| x.metal == "magnesium")
+            .map(|x| x.molality)
+            .sum();
+        let swept: f64 = d.points[k].1[1..].iter().sum();
+        assert!((swept - bound / total).abs() < 1e-10, "pH {ph}");
+    }
+}

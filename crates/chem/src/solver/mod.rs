@@ -20,7 +20,10 @@ pub mod water;
 use serde::{Deserialize, Serialize};
 
 pub use activity::ActivityModel;
-pub use speciation::{ComplexAmount, IonAmount, Saturation, Speciation, saturation, speciation};
+pub use speciation::{
+    ComplexAmount, IonAmount, MetalAtPh, Saturation, Speciation, metal_against_ph, saturation,
+    speciation,
+};
 pub use species::SystemState;
 
 use crate::library::{Library, PitzerTable, Species};

@@ -85,6 +85,57 @@ impl Speciation {
     }
 }
 
+/// One metal at one pH: its free molality and, for each complex of it, the ligand's id and the
+/// complex's molality.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MetalAtPh {
+    /// The pH.
+    pub ph: f64,
+    /// Free molality of the metal, mol/kg water.
+    pub free: f64,
+    /// Ligand id (`SYSTEM/FORM` or `hydroxide`) and molality of each complex of the metal.
+    pub complexes: Vec<(String, f64)>,
+}
+
+/// How an ion (library index) is held at each pH given, with the coefficients of a solved state
+/// kept and the metal balances closed from one pH to the next (each from the one before); the
+/// free ion alone when no complex binds it.
+pub fn metal_against_ph(
+    library: &Library,
+    constants: &Constants,
+    composition: &Composition,
+    solution: &Solution,
+    ion: usize,
+    phs: impl IntoIterator<Item = f64>,
+) -> Vec<MetalAtPh> {
+    let mut model = ChargeBalance::at_solution(constants, composition, solution);
+    let (layout, binding, _) = model.parts();
+    let Some(slot) = layout.ions.iter().position(|&i| i == ion) else {
+        return Vec::new();
+    };
+    let position = layout.ion(slot);
+    let own: Vec<(usize, String)> = binding
+        .complexes
+        .iter()
+        .enumerate()
+        .filter(|(_, b)| constants.complexes[b.constant].metal == ion)
+        .map(|(k, b)| {
+            let ligand = library.species_id(constants.complexes[b.constant].ligand);
+            (layout.complex_start + k, ligand)
+        })
+        .collect();
+    phs.into_iter()
+        .map(|ph| {
+            let m = model.molalities(ph);
+            MetalAtPh {
+                ph,
+                free: m[position],
+                complexes: own.iter().map(|(p, l)| (l.clone(), m[*p])).collect(),
+            }
+        })
+        .collect()
+}
+
 /// The speciation of a solved composition.
 pub fn speciation(
     library: &Library,
