@@ -288,16 +288,26 @@ impl<'a> ChargeBalance<'a> {
     /// one more unknown, with the equation I(state) − I = 0 and the Davies coefficients'
     /// derivative in the linearization, so it converges with the balances instead of in an
     /// outer loop around them. `None` (with the free metals as they were) unless all of them
-    /// converge inside the range; the coefficients are then those of the returned state.
+    /// converge inside the range; the coefficients are then those of the returned state. A
+    /// `cold` start (no guess) with ion pairs alone starts from the pH without complexes.
     pub fn root_with_ionic(
         &mut self,
         start_ph: f64,
         start_ionic: f64,
+        cold: bool,
     ) -> Option<super::newton::Outcome> {
         if self.binding.is_empty() || self.lambda == 0.0 {
             return None;
         }
         self.set_ionic_strength(start_ionic);
+        // Ion pairs of Na⁺ and K⁺ alone barely move the pH, so the pH without complexes is a
+        // close start; chelated Ca²⁺ or Mg²⁺ can move it by units, so there it is no help.
+        let pairs_only = self.binding.metals.iter().all(|m| m.z2 == 1.0);
+        let start_ph = if cold && pairs_only {
+            self.ph_without_complexes(start_ph)
+        } else {
+            start_ph
+        };
         let mut u0 = std::mem::take(&mut self.joint.2);
         u0.clear();
         u0.extend_from_slice(&self.u);
@@ -543,12 +553,48 @@ impl<'a> ChargeBalance<'a> {
         let h_molal = h / self.gamma[H];
         let oh_molal = self.constants.kw * inv_h / self.gamma[OH];
         let c = self.composition;
-        let mut residual = c.spectator_charge + h_molal - oh_molal;
-        let mut scale = c.spectator_abs_charge + h_molal + oh_molal;
-        let mut z2_sum = c.spectator_z2 + h_molal + oh_molal;
+        let residual = c.spectator_charge + h_molal - oh_molal;
+        let scale = c.spectator_abs_charge + h_molal + oh_molal;
+        let z2_sum = c.spectator_z2 + h_molal + oh_molal;
         if !self.binding.is_empty() {
             return self.evaluate_bound(ph, inv_h, h_molal, oh_molal, [residual, scale, z2_sum]);
         }
+        self.evaluate_free(inv_h, h_molal, oh_molal, [residual, scale, z2_sum])
+    }
+
+    /// The pH of the charge balance with every complex left out, at the coefficients held: a
+    /// cheap first estimate where complexes take part (each evaluation skips the metals).
+    pub fn ph_without_complexes(&mut self, start: f64) -> f64 {
+        let outcome = super::newton::solve_bracketed(
+            |ph| {
+                let h = (-ph * LN_10).exp();
+                let inv_h = 1.0 / h;
+                let h_molal = h / self.gamma[H];
+                let oh_molal = self.constants.kw * inv_h / self.gamma[OH];
+                let c = self.composition;
+                let sums = [
+                    c.spectator_charge + h_molal - oh_molal,
+                    c.spectator_abs_charge + h_molal + oh_molal,
+                    c.spectator_z2 + h_molal + oh_molal,
+                ];
+                self.evaluate_free(inv_h, h_molal, oh_molal, sums)
+            },
+            start,
+            super::PH_MIN,
+            super::PH_MAX,
+        );
+        outcome.x
+    }
+
+    /// The evaluation of the free forms alone (no complex taking part).
+    fn evaluate_free(
+        &self,
+        inv_h: f64,
+        h_molal: f64,
+        oh_molal: f64,
+        [mut residual, mut scale, mut z2_sum]: [f64; 3],
+    ) -> Evaluation {
+        let c = self.composition;
         let mut var_sum = 0.0;
         let mut protons_removed = 0.0;
         let mut offset = 0;
@@ -564,7 +610,6 @@ impl<'a> ChargeBalance<'a> {
             z2_sum += total * m.mean_z2;
             protons_removed += total * m.mean;
         }
-        let _ = ph;
         Evaluation {
             residual,
             derivative: -LN_10 * (h_molal + oh_molal + var_sum),

@@ -514,7 +514,7 @@ impl<'a> Sequence<'a> {
         let solution = if model.is_pitzer() {
             solve_pitzer(model, start_ph, start_ionic)
         } else {
-            solve_by_charge(model, activity, start_ph, start_ionic)
+            solve_by_charge(model, activity, start_ph, start_ionic, guess.is_none())
         };
         if self.history.len() == 3 {
             self.history.pop();
@@ -552,7 +552,7 @@ fn solve_model<'a>(
     let solution = if model.is_pitzer() {
         solve_pitzer(&mut model, start_ph, start_ionic)
     } else {
-        solve_by_charge(&mut model, activity, start_ph, start_ionic)
+        solve_by_charge(&mut model, activity, start_ph, start_ionic, guess.is_none())
     };
     (solution, model)
 }
@@ -568,9 +568,10 @@ fn solve_by_charge(
     activity: ActivityModel,
     start_ph: f64,
     start_ionic: f64,
+    cold: bool,
 ) -> Solution {
     const MAX_OUTER: u32 = 60;
-    if let Some(joint) = model.root_with_ionic(start_ph, start_ionic) {
+    if let Some(joint) = model.root_with_ionic(start_ph, start_ionic, cold) {
         let steps = joint.iterations;
         return model.finish(joint.x, joint.at_x, steps, steps, SolveStatus::Converged);
     }
