@@ -363,16 +363,7 @@ impl<'a> ChargeBalance<'a> {
             return None;
         }
         for iteration in 1..=MAX_STEPS {
-            let h = (-ph * LN_10).exp();
-            let inv_h = 1.0 / h;
-            let h_molal = h / self.gamma[H];
-            let oh_molal = self.constants.kw * inv_h / self.gamma[OH];
-            let c = self.composition;
-            let sums = [
-                c.spectator_charge + h_molal - oh_molal,
-                c.spectator_abs_charge + h_molal + oh_molal,
-                c.spectator_z2 + h_molal + oh_molal,
-            ];
+            let (inv_h, h_molal, oh_molal, sums) = self.water_terms(ph);
             self.distributions(inv_h);
             let inputs = self
                 .dist
@@ -548,18 +539,27 @@ impl<'a> ChargeBalance<'a> {
 
     /// The residual, its derivative and the ionic strength at a pH.
     pub fn evaluate(&mut self, ph: f64) -> Evaluation {
+        let (inv_h, h_molal, oh_molal, sums) = self.water_terms(ph);
+        if !self.binding.is_empty() {
+            return self.evaluate_bound(ph, inv_h, h_molal, oh_molal, sums);
+        }
+        self.evaluate_free(inv_h, h_molal, oh_molal, sums)
+    }
+
+    /// At a pH: 1/a(H⁺), m(H⁺), m(OH⁻), and the charge, |charge| and z² sums of the spectators
+    /// with H⁺ and OH⁻ — where every evaluation starts.
+    fn water_terms(&self, ph: f64) -> (f64, f64, f64, [f64; 3]) {
         let h = (-ph * LN_10).exp();
         let inv_h = 1.0 / h;
         let h_molal = h / self.gamma[H];
         let oh_molal = self.constants.kw * inv_h / self.gamma[OH];
         let c = self.composition;
-        let residual = c.spectator_charge + h_molal - oh_molal;
-        let scale = c.spectator_abs_charge + h_molal + oh_molal;
-        let z2_sum = c.spectator_z2 + h_molal + oh_molal;
-        if !self.binding.is_empty() {
-            return self.evaluate_bound(ph, inv_h, h_molal, oh_molal, [residual, scale, z2_sum]);
-        }
-        self.evaluate_free(inv_h, h_molal, oh_molal, [residual, scale, z2_sum])
+        let sums = [
+            c.spectator_charge + h_molal - oh_molal,
+            c.spectator_abs_charge + h_molal + oh_molal,
+            c.spectator_z2 + h_molal + oh_molal,
+        ];
+        (inv_h, h_molal, oh_molal, sums)
     }
 
     /// The pH of the charge balance with every complex left out, at the coefficients held: a
@@ -567,16 +567,7 @@ impl<'a> ChargeBalance<'a> {
     pub fn ph_without_complexes(&mut self, start: f64) -> f64 {
         let outcome = super::newton::solve_bracketed(
             |ph| {
-                let h = (-ph * LN_10).exp();
-                let inv_h = 1.0 / h;
-                let h_molal = h / self.gamma[H];
-                let oh_molal = self.constants.kw * inv_h / self.gamma[OH];
-                let c = self.composition;
-                let sums = [
-                    c.spectator_charge + h_molal - oh_molal,
-                    c.spectator_abs_charge + h_molal + oh_molal,
-                    c.spectator_z2 + h_molal + oh_molal,
-                ];
+                let (inv_h, h_molal, oh_molal, sums) = self.water_terms(ph);
                 self.evaluate_free(inv_h, h_molal, oh_molal, sums)
             },
             start,

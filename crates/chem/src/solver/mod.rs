@@ -444,8 +444,6 @@ pub struct Sequence<'a> {
     /// ln free metals of the last (up to) three states solved, latest first: the next start is
     /// their extrapolation, as the pH's is.
     history: Vec<Vec<f64>>,
-    /// Scratch of the extrapolated start.
-    start_u: Vec<f64>,
 }
 
 impl<'a> Sequence<'a> {
@@ -455,24 +453,22 @@ impl<'a> Sequence<'a> {
             constants,
             balance: None,
             history: Vec::with_capacity(3),
-            start_u: Vec::new(),
         }
     }
 
     /// The free metals' start extrapolated from the states before (each step at most ±2 in
     /// ln m from the last).
-    fn extrapolated_metals(&mut self) -> Option<&[f64]> {
+    fn extrapolated_metals(&self) -> Option<Vec<f64>> {
         let last = self.history.first()?;
-        self.start_u.clear();
-        for (i, &a) in last.iter().enumerate() {
+        let start = last.iter().enumerate().map(|(i, &a)| {
             let step = match (self.history.get(1), self.history.get(2)) {
                 (Some(b), Some(c)) => 2.0 * (a - b[i]) - (b[i] - c[i]),
                 (Some(b), None) => a - b[i],
                 _ => 0.0,
             };
-            self.start_u.push(a + step.clamp(-2.0, 2.0));
-        }
-        Some(&self.start_u)
+            a + step.clamp(-2.0, 2.0)
+        });
+        Some(start.collect())
     }
 
     /// [`solve_near`] of `composition`, reusing the last balance when the shape allows.
@@ -491,8 +487,7 @@ impl<'a> Sequence<'a> {
             .as_mut()
             .is_some_and(|b| b.model() == activity && b.retarget(composition));
         if kept {
-            let start = self.extrapolated_metals().map(<[f64]>::to_vec);
-            if let (Some(u), Some(b)) = (start, self.balance.as_mut()) {
+            if let (Some(u), Some(b)) = (self.extrapolated_metals(), self.balance.as_mut()) {
                 b.set_free_metals(&u);
             }
         } else {
