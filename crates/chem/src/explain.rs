@@ -6,7 +6,7 @@
 
 use serde::Serialize;
 
-use crate::library::{Library, ResolvedRelease, form_names};
+use crate::library::{Library, ResolvedRelease, Species, form_names};
 use crate::recipe::Batch;
 use crate::solver::Constants;
 use crate::text::{self, Notation};
@@ -124,6 +124,20 @@ pub fn explain_ingredient(
                         Effect::Basifies,
                         format!("{label} from a strong base raises pH directly"),
                     )
+                } else if let Some(ka) = hydrolysis_ka(constants, ion) {
+                    let c = text::constant_display;
+                    ions.push(IonEffect {
+                        label: label.clone(),
+                        effect: Effect::Acidifies,
+                        ka: Some(ka),
+                        kb: None,
+                        reason: format!(
+                            "{label}, the aqua ion of a weak base, gives a proton to water from a bound water molecule: Ka = {} (pKa {:.2})",
+                            c(ka),
+                            -ka.log10()
+                        ),
+                    });
+                    continue;
                 } else {
                     spectators.push(Spectator {
                         label: label.clone(),
@@ -249,6 +263,20 @@ pub fn explain_ingredient(
         summary,
         ions,
     }
+}
+
+/// The acidity constant of a metal aqua ion's first hydrolysis, M + H2O ⇌ MOH + H⁺, from its
+/// hydroxo complex, when it is strong enough to count: pKa below 10. Ca²⁺ and Mg²⁺ (pKa 12.8
+/// and 11.4) are counted as cations that do not react, as is usual (common practice, no source).
+fn hydrolysis_ka(constants: &Constants, ion: usize) -> Option<f64> {
+    constants
+        .complexes
+        .iter()
+        .find(|c| {
+            c.metal == ion && c.ligand_count == 1 && c.ligand == Species::Ion(constants.hydroxide)
+        })
+        .map(|c| c.k * constants.kw)
+        .filter(|&ka| ka > 1e-10)
 }
 
 fn dedup<'a>(it: impl Iterator<Item = &'a str>) -> Vec<&'a str> {

@@ -60,7 +60,16 @@ fn every_complex_resolves_to_a_cation_and_a_ligand_of_the_library() {
         let metal = lib.species(&d.metal).expect("the metal is a species");
         assert_eq!(metal, Species::Ion(c.metal), "{}", d.id);
         assert!(
-            ["calcium", "magnesium", "sodium", "potassium"].contains(&d.metal.as_str()),
+            [
+                "calcium",
+                "magnesium",
+                "sodium",
+                "potassium",
+                "zinc",
+                "aluminium",
+                "iron_iii"
+            ]
+            .contains(&d.metal.as_str()),
             "{}: metal {}",
             d.id,
             d.metal
@@ -72,9 +81,12 @@ fn every_complex_resolves_to_a_cation_and_a_ligand_of_the_library() {
             "{}: ligand is an anion",
             d.id
         );
+        // Only hydroxo complexes hold more than one ligand.
+        let n = i32::try_from(d.ligand_count).expect("a small count");
+        assert!(n == 1 || d.ligand == "hydroxide", "{}", d.id);
         assert_eq!(
             c.charge,
-            lib.species_charge(metal) + lib.species_charge(ligand),
+            lib.species_charge(metal) + n * lib.species_charge(ligand),
             "{}",
             d.id
         );
@@ -137,9 +149,9 @@ fn the_ligands_named_are_the_forms_meant() {
         ("glda/4", -4),
         ("mgda/3", -3),
         ("hedp/4", -4),
-        ("zinc/0", 2),
-        ("iron_iii/0", 3),
-        ("aluminium/0", 3),
+        ("zinc", 2),
+        ("iron_iii", 3),
+        ("aluminium", 3),
     ] {
         let sp = lib
             .species(id)
@@ -158,6 +170,12 @@ fn the_ligands_named_are_the_forms_meant() {
         ("sodium_sulfate_pair", -1),
         ("calcium_citrate", -1),
         ("magnesium_pyrophosphate", -2),
+        // Zn(OH)₄²⁻, Al(OH)₄⁻, Fe(OH)₂⁺ hold several OH⁻; ZnY²⁻, FeY⁻.
+        ("zincate", -2),
+        ("aluminate", -1),
+        ("iron_iii_dihydroxo", 1),
+        ("zinc_edta", -2),
+        ("iron_iii_edta", -1),
     ] {
         assert_eq!(complex(&lib, id).charge, charge, "{id}");
     }
@@ -361,6 +379,7 @@ fn pair(ligand: &str) -> Complex {
         id: "calcium_test_pair".into(),
         metal: "calcium".into(),
         ligand: ligand.into(),
+        ligand_count: 1,
         log_k: 3.224,
         ionic_strength: 0.0,
         dh_kj_mol: 0.0,
@@ -397,6 +416,36 @@ fn a_valid_complex_and_solid_load() {
     assert_eq!(lib.complexes()[0].charge, 0);
     assert_eq!(lib.complexes()[1].charge, 1);
     assert_eq!(lib.solids().len(), 1);
+}
+
+#[test]
+fn only_hydroxo_complexes_may_hold_several_ligands() {
+    // Several carbonates on one metal is not a complex the solver can hold.
+    let mut d = small();
+    let mut c = pair("carbonic/2");
+    c.ligand_count = 2;
+    d.complexes = vec![c];
+    let text = refusal(d).to_string();
+    assert!(
+        text.contains("complex 'calcium_test_pair'") && text.contains("ligand_count 2"),
+        "{text}"
+    );
+    // Zero, or more than four OH⁻, neither.
+    for n in [0, 5] {
+        let mut d = small();
+        let mut c = pair("hydroxide");
+        c.ligand_count = n;
+        d.complexes = vec![c];
+        let text = refusal(d).to_string();
+        assert!(text.contains(&format!("ligand_count {n}")), "{text}");
+    }
+    // Two OH⁻ on calcium loads, with the charge that follows.
+    let mut d = small();
+    let mut c = pair("hydroxide");
+    c.ligand_count = 2;
+    d.complexes = vec![c];
+    let lib = Library::from_data(d).expect("a dihydroxo complex loads");
+    assert_eq!(lib.complexes()[0].charge, 0);
 }
 
 #[test]

@@ -224,7 +224,7 @@ pub struct PitzerTriple {
     pub source: String,
 }
 
-/// A complex (or ion pair) of a metal ion with one ligand: M + L ⇌ ML.
+/// A complex (or ion pair) of a metal ion with its ligands: M + n L ⇌ MLn.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Complex {
     /// Stable id, e.g. `calcium_edta`.
@@ -233,6 +233,9 @@ pub struct Complex {
     pub metal: String,
     /// The ligand: `hydroxide` or a form of a system as `SYSTEM/FORM`.
     pub ligand: String,
+    /// How many ligands the complex holds (M + n L ⇌ MLn); above 1 only for `hydroxide`.
+    #[serde(default = "one_ligand")]
+    pub ligand_count: u32,
     /// log10 of the formation constant at 25 °C, molal, at `ionic_strength`.
     pub log_k: f64,
     /// Ionic strength (mol/kg) at which `log_k` was measured; 0 means thermodynamic.
@@ -243,6 +246,11 @@ pub struct Complex {
     pub dh_kj_mol: f64,
     /// Where the values come from.
     pub source: String,
+}
+
+/// The usual ligand count of a complex: one.
+fn one_ligand() -> u32 {
+    1
 }
 
 /// A sparingly soluble solid and its solubility product.

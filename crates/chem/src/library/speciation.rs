@@ -183,8 +183,15 @@ impl Library {
                 )));
             }
         };
-        if !(-5.0..=40.0).contains(&c.log_k) {
-            return Err(bad(&format!("log_k {} is outside −5…40", c.log_k)));
+        let hydroxo = matches!(ligand, Species::Ion(_));
+        if c.ligand_count == 0 || c.ligand_count > 4 || (c.ligand_count > 1 && !hydroxo) {
+            return Err(bad(&format!(
+                "ligand_count {} is not allowed: 1 for any ligand, up to 4 for 'hydroxide'",
+                c.ligand_count
+            )));
+        }
+        if !(-5.0..=60.0).contains(&c.log_k) {
+            return Err(bad(&format!("log_k {} is outside −5…60", c.log_k)));
         }
         if !(0.0..=5.0).contains(&c.ionic_strength) {
             return Err(bad("ionic_strength must be between 0 and 5 mol/kg water"));
@@ -195,7 +202,8 @@ impl Library {
         if c.source.trim().is_empty() {
             return Err(bad("every complex needs the source of its constant"));
         }
-        let charge = self.ions()[metal].charge + self.species_charge(ligand);
+        let charge = self.ions()[metal].charge
+            + self.species_charge(ligand) * i32::try_from(c.ligand_count).unwrap_or(1);
         Ok(ResolvedComplex {
             data: c,
             metal,

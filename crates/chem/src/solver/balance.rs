@@ -251,7 +251,7 @@ impl<'a> ChargeBalance<'a> {
         for (c, b) in self.binding.complexes.iter().enumerate() {
             let g_metal = self.gamma[self.layout.ion(self.binding.metals[b.metal].slot)];
             let g_ligand = match b.ligand {
-                Ligand::Hydroxide => self.gamma[OH],
+                Ligand::Hydroxide => self.gamma[OH].powf(b.count),
                 Ligand::Form { slot, form } => self.gamma[self.layout.form_start[slot] + form],
             };
             let g_complex = self.gamma[self.layout.complex_start + c];
@@ -661,8 +661,8 @@ impl<'a> ChargeBalance<'a> {
             scale += z.abs() * amount;
             z2_sum += z * z * amount;
             if b.ligand == Ligand::Hydroxide {
-                residual -= amount;
-                protons_removed += amount;
+                residual -= b.count * amount;
+                protons_removed += b.count * amount;
             }
         }
         Evaluation {

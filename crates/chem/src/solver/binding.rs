@@ -49,6 +49,8 @@ pub struct Bound {
     /// z² of the complex less z² of its metal: with the ligand's own distribution, how its
     /// conditional formation moves with the Davies function.
     pub dz2: f64,
+    /// Ligands held (hydroxo complexes may hold up to four OH⁻).
+    pub count: f64,
 }
 
 /// The metals and complexes of one composition.
@@ -120,6 +122,7 @@ impl Binding {
                 ligand,
                 z2,
                 dz2: z2 - f64::from(constants.ion_charges[c.metal].pow(2)),
+                count: f64::from(c.ligand_count),
             });
         }
         b
@@ -420,16 +423,22 @@ impl Binding {
         for &c in &self.hydroxo {
             let b = &self.complexes[c];
             let n = b.metal;
-            let amount = inputs.k_cond[c] * st.free[n] * inputs.oh;
+            let oh = if b.count == 1.0 {
+                inputs.oh
+            } else {
+                inputs.oh.powf(b.count)
+            };
+            let amount = inputs.k_cond[c] * st.free[n] * oh;
             st.complex[c] = amount;
-            // d ln C: pH ln 10, ln m 1, φ λ (z_C² − z_M²).
+            // d ln C: pH n·ln 10, ln m 1, φ λ (z_C² − z_M²).
+            let own_p = b.count * LN10;
             let own_phi = lambda * b.dz2;
             st.f[n] += amount;
             st.jac[n * k + n] += amount;
-            st.dfdp[n] += amount * LN10;
+            st.dfdp[n] += amount * own_p;
             st.dfdphi[n] += amount * own_phi;
             let zc = b.z2 * amount;
-            st.dz2[0] += zc * LN10;
+            st.dz2[0] += zc * own_p;
             st.dz2[1 + n] += zc;
             st.dz2[phi] += zc * own_phi;
         }
@@ -493,7 +502,7 @@ impl Binding {
         resize(&mut state.dz2, d);
     }
 
-    /// ∂F/∂p, ∂R/∂p and ∂R/∂u at the last residuals, with R's bound part −Σ P_L − Σ hydroxo C,
+    /// ∂F/∂p, ∂R/∂p and ∂R/∂u at the last residuals, with R's bound part −Σ P_L − Σ hydroxo n·C,
     /// and the correction −∂R/∂u · J⁻¹ · ∂F/∂p.
     fn derivatives(&self, st: &mut BoundState) {
         self.partials(st);
@@ -512,10 +521,11 @@ impl Binding {
         }
         for &c in &self.hydroxo {
             let b = &self.complexes[c];
-            let amount = st.complex[c];
-            st.dr[0] -= amount * LN10;
-            st.dr[1 + b.metal] -= amount;
-            st.dr[k + 1] -= amount * st.lambda * b.dz2;
+            // Each holds `count` OH⁻: its part of R is −n·C.
+            let held = b.count * st.complex[c];
+            st.dr[0] -= held * b.count * LN10;
+            st.dr[1 + b.metal] -= held;
+            st.dr[k + 1] -= held * st.lambda * b.dz2;
         }
         st.partial_p = st.dr[0];
     }

@@ -120,6 +120,8 @@ pub(crate) struct ComplexConstant {
     pub metal: usize,
     pub ligand: Species,
     pub charge: i32,
+    /// Ligands per complex (above 1 only for hydroxo complexes).
+    pub ligand_count: u32,
     /// Thermodynamic formation constant (I = 0) at the temperature.
     pub k: f64,
     /// Whether the Pitzer table has a pair for the metal and ligand (which then holds the pairing).
@@ -163,18 +165,21 @@ impl Constants {
             .iter()
             .enumerate()
             .map(|(index, c)| {
-                // log K(I) = log K° − A·f(I)·(z_M² + z_L² − z_ML²), as for the pKa values.
+                // log K(I) = log K° − A·f(I)·(z_M² + n·z_L² − z_MLn²), as for the pKa values.
                 let z_m = library.ions()[c.metal].charge;
                 let z_l = library.species_charge(c.ligand);
+                let n = f64::from(c.data.ligand_count);
                 let f = activity::davies_function(c.data.ionic_strength);
-                let log_k0 =
-                    c.data.log_k + a25 * f * f64::from(z_m * z_m + z_l * z_l - c.charge * c.charge);
+                let dz2 = f64::from(z_m * z_m) + n * f64::from(z_l * z_l)
+                    - f64::from(c.charge * c.charge);
+                let log_k0 = c.data.log_k + a25 * f * dz2;
                 let log_k = -temperature::pka_at(-log_k0, c.data.dh_kj_mol, 0.0, temp_k);
                 ComplexConstant {
                     index,
                     metal: c.metal,
                     ligand: c.ligand,
                     charge: c.charge,
+                    ligand_count: c.data.ligand_count,
                     k: 10f64.powf(log_k),
                     in_pitzer: pitzer
                         .pairs
