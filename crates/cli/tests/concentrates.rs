@@ -85,6 +85,34 @@ fn hard_water_with_edta_reports_complexes_and_saturation() {
 }
 
 #[test]
+fn zinc_is_a_metal_ion_whose_hydrolysis_is_listed_among_the_complexes() {
+    // 10 mmol ZnSO₄·7H₂O with 1 mol NaOH per kg: the zincate ion Zn(OH)₄²⁻ holds the zinc
+    // (log *β4 −41.2, Baes & Mesmer, The Hydrolysis of Cations, 1976, from memory).
+    let v = json(&[
+        "ph",
+        "water=1000g",
+        "zinc_sulfate_heptahydrate=2.875g",
+        "sodium_hydroxide=40g",
+        "--json",
+    ]);
+    let zn = find(&v["ions"], "id", "zinc");
+    assert_eq!(zn["charge"], 2);
+    let zincate = find(&v["complexes"], "id", "zincate");
+    assert_eq!(zincate["metal"], "zinc");
+    assert_eq!(zincate["ligand"], "hydroxide");
+    assert_eq!(zincate["charge"], -2);
+    assert!(zincate["molality"].as_f64().unwrap() > 5e-3);
+    assert!(
+        v["ions"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .all(|i| !i["id"].as_str().unwrap().starts_with("zinc/"))
+    );
+    find(&v["saturation"], "solid", "zinc_hydroxide");
+}
+
+#[test]
 fn the_required_hardness_salts_are_in_the_library() {
     let v = json(&[
         "ph",
