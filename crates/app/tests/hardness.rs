@@ -179,3 +179,51 @@ fn the_species_panel_charts_where_calcium_is_against_ph() {
         .unwrap();
     assert!(at_ten.1[edta] > 0.99);
 }
+
+/// An invented zinc mouth-rinse base: zinc sulfate in water, a little alkali.
+fn zinc_rinse() -> Project {
+    let mut p = Project::with_recipe(Recipe::in_grams(&[
+        ("water", 1000.0),
+        ("zinc_sulfate_heptahydrate", 0.29),
+    ]));
+    p.name = "Harrowgate zinc rinse base".into();
+    p
+}
+
+#[test]
+fn the_species_panel_charts_zinc_free_and_as_hydroxo_complexes() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness_in(zinc_rinse(), &Folders::under(dir.path()));
+    h.get_by_label("Species system").click();
+    h.run();
+    h.get_by_role_and_label(
+        egui::accesskit::Role::Button,
+        "zinc (Zn²⁺): free, bound, settled",
+    )
+    .click();
+    h.run();
+    let d = h.state().engine().metal().expect("a metal chart").clone();
+    assert_eq!(d.metal, "zinc");
+    assert!(h.query_all_by_label_contains("free Zn²⁺").count() >= 1);
+    assert!(
+        h.query_all_by_label_contains("as hydroxo complexes")
+            .count()
+            >= 1
+    );
+    // Zinc is free at pH 5 and held as hydroxo complexes (zincate) at pH 13: log *β1 −8.96,
+    // *β4 −41.2 (Baes & Mesmer, The Hydrolysis of Cations, 1976, from memory).
+    let hydroxo = d
+        .parts
+        .iter()
+        .position(|p| p == "hydroxide")
+        .expect("hydroxo part");
+    let share = |ph: f64| {
+        d.points
+            .iter()
+            .min_by(|a, b| (a.0 - ph).abs().total_cmp(&(b.0 - ph).abs()))
+            .map(|p| p.1[hydroxo])
+            .expect("points")
+    };
+    assert!(share(5.0) < 0.01, "{}", share(5.0));
+    assert!(share(13.0) > 0.99, "{}", share(13.0));
+}
