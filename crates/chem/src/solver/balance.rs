@@ -354,8 +354,8 @@ impl<'a> ChargeBalance<'a> {
         follow: bool,
     ) -> Option<super::newton::Outcome> {
         const MAX_STEPS: u32 = 30;
-        const REL_TOL: f64 = 1e-14;
-        const METAL_TOL: f64 = 1e-14;
+        const REL_TOL: f64 = 1e-12;
+        const METAL_TOL: f64 = 1e-12;
         const METAL_STEP: f64 = 8.0;
         let n = k + 1 + usize::from(follow);
         let mut ph = start.clamp(super::PH_MIN, super::PH_MAX);
@@ -383,8 +383,12 @@ impl<'a> ChargeBalance<'a> {
                 && e.residual.abs() <= REL_TOL * e.scale
                 && self.state.metal_residual <= METAL_TOL
             {
+                // Closing changes only the derivative's correction for the metals held closed.
                 self.binding.close_at(ph, &mut self.state);
-                let e = self.bound_evaluation(h_molal, oh_molal, sums);
+                let e = Evaluation {
+                    derivative: self.bound_derivative(h_molal, oh_molal),
+                    ..e
+                };
                 return Some(super::newton::Outcome {
                     x: ph,
                     iterations: iteration,
@@ -626,6 +630,11 @@ impl<'a> ChargeBalance<'a> {
         self.bound_evaluation(h_molal, oh_molal, sums)
     }
 
+    /// dR/dpH with the metals bound, from the partials and correction the state holds.
+    fn bound_derivative(&self, h_molal: f64, oh_molal: f64) -> f64 {
+        -LN_10 * (h_molal + oh_molal) + self.state.partial_p + self.state.derivative_correction
+    }
+
     /// The evaluation from the bound state as it stands (free metals as they are).
     fn bound_evaluation(
         &self,
@@ -667,9 +676,7 @@ impl<'a> ChargeBalance<'a> {
         }
         Evaluation {
             residual,
-            derivative: -LN_10 * (h_molal + oh_molal)
-                + state.partial_p
-                + state.derivative_correction,
+            derivative: self.bound_derivative(h_molal, oh_molal),
             scale,
             ionic_strength: 0.5 * z2_sum,
             h_molal,

@@ -449,6 +449,8 @@ pub struct Sequence<'a> {
     /// ln free metals of the last (up to) three states solved, latest first: the next start is
     /// their extrapolation, as the pH's is.
     history: Vec<Vec<f64>>,
+    /// The extrapolated start (kept so that no point allocates one).
+    start: Vec<f64>,
 }
 
 impl<'a> Sequence<'a> {
@@ -458,22 +460,26 @@ impl<'a> Sequence<'a> {
             constants,
             balance: None,
             history: Vec::with_capacity(3),
+            start: Vec::new(),
         }
     }
 
     /// The free metals' start extrapolated from the states before (each step at most ±2 in
-    /// ln m from the last).
-    fn extrapolated_metals(&self) -> Option<Vec<f64>> {
-        let last = self.history.first()?;
-        let start = last.iter().enumerate().map(|(i, &a)| {
+    /// ln m from the last), into `start`; false with no state before.
+    fn extrapolate_metals(&mut self) -> bool {
+        let Some(last) = self.history.first() else {
+            return false;
+        };
+        self.start.clear();
+        self.start.extend(last.iter().enumerate().map(|(i, &a)| {
             let step = match (self.history.get(1), self.history.get(2)) {
                 (Some(b), Some(c)) => 2.0 * (a - b[i]) - (b[i] - c[i]),
                 (Some(b), None) => a - b[i],
                 _ => 0.0,
             };
             a + step.clamp(-2.0, 2.0)
-        });
-        Some(start.collect())
+        }));
+        true
     }
 
     /// [`solve_near`] of `composition`, reusing the last balance when the shape allows.
@@ -492,8 +498,10 @@ impl<'a> Sequence<'a> {
             .as_mut()
             .is_some_and(|b| b.model() == activity && b.retarget(composition));
         if kept {
-            if let (Some(u), Some(b)) = (self.extrapolated_metals(), self.balance.as_mut()) {
-                b.set_free_metals(&u);
+            if self.extrapolate_metals()
+                && let Some(b) = self.balance.as_mut()
+            {
+                b.set_free_metals(&self.start);
             }
         } else {
             self.history.clear();
@@ -516,10 +524,15 @@ impl<'a> Sequence<'a> {
         } else {
             solve_by_charge(model, activity, start_ph, start_ionic, guess.is_none())
         };
-        if self.history.len() == 3 {
-            self.history.pop();
-        }
-        self.history.insert(0, solution.free_metals.clone());
+        // The oldest state's vector takes the newest values, so no point allocates.
+        let mut newest = if self.history.len() == 3 {
+            self.history.pop().unwrap_or_default()
+        } else {
+            Vec::new()
+        };
+        newest.clear();
+        newest.extend_from_slice(&solution.free_metals);
+        self.history.insert(0, newest);
         solution
     }
 }
