@@ -251,7 +251,8 @@ impl<'a> ChargeBalance<'a> {
         for (c, b) in self.binding.complexes.iter().enumerate() {
             let g_metal = self.gamma[self.layout.ion(self.binding.metals[b.metal].slot)];
             let g_ligand = match b.ligand {
-                Ligand::Hydroxide => self.gamma[OH].powf(b.count),
+                Ligand::Hydroxide if b.count == 1.0 => self.gamma[OH],
+                Ligand::Hydroxide => self.gamma[OH].powi(b.count as i32),
                 Ligand::Form { slot, form } => self.gamma[self.layout.form_start[slot] + form],
             };
             let g_complex = self.gamma[self.layout.complex_start + c];
@@ -492,29 +493,36 @@ impl<'a> ChargeBalance<'a> {
     /// each slot's ⟨j⟩ and Var(j).
     fn distributions(&mut self, inv_h: f64) {
         let d = &mut self.dist;
-        d.q.clear();
-        d.q_start.clear();
-        d.mean.clear();
-        d.variance.clear();
-        d.charge_moments.clear();
+        let slots = self.composition.systems.len();
+        // The forms of slot s are q[form_start[s] − form_start[0] ..], one more than its steps.
+        let forms = self.layout.form_start[slots] - self.layout.form_start[0];
+        if d.q.len() != forms || d.mean.len() != slots {
+            d.q.resize(forms, 0.0);
+            d.q_start.resize(slots, 0);
+            d.mean.resize(slots, 0.0);
+            d.variance.resize(slots, 0.0);
+            d.charge_moments.resize(slots, [0.0; 3]);
+        }
         let mut offset = 0;
-        for &(system, _) in &self.composition.systems {
-            let n = self.constants.ka(system).len();
-            let start = d.q.len();
-            d.q_start.push(start);
-            d.q.push(1.0);
+        let mut start = 0;
+        for (slot, &(system, _)) in self.composition.systems.iter().enumerate() {
+            let ka_c = &self.ka_c[offset..offset + self.constants.ka(system).len()];
+            let q = &mut d.q[start..=start + ka_c.len()];
+            d.q_start[slot] = start;
+            q[0] = 1.0;
             let mut t = 1.0;
             let mut sum = 1.0;
-            for k in 0..n {
-                t *= self.ka_c[offset + k] * inv_h;
-                d.q.push(t);
+            for (x, k) in q[1..].iter_mut().zip(ka_c) {
+                t *= k * inv_h;
+                *x = t;
                 sum += t;
             }
-            offset += n;
+            offset += ka_c.len();
+            start += ka_c.len() + 1;
             let inv = 1.0 / sum;
             let z0 = f64::from(self.constants.z0(system));
             let (mut m1, mut m2, mut z2, mut jz2, mut z4) = (0.0, 0.0, 0.0, 0.0, 0.0);
-            for (j, x) in d.q[start..].iter_mut().enumerate() {
+            for (j, x) in q.iter_mut().enumerate() {
                 *x *= inv;
                 let jf = j as f64;
                 let zz = (z0 - jf) * (z0 - jf);
@@ -524,10 +532,9 @@ impl<'a> ChargeBalance<'a> {
                 jz2 += jf * zz * *x;
                 z4 += zz * zz * *x;
             }
-            d.mean.push(m1);
-            d.variance.push((m2 - m1 * m1).max(0.0));
-            d.charge_moments
-                .push([z2, jz2 - m1 * z2, (z4 - z2 * z2).max(0.0)]);
+            d.mean[slot] = m1;
+            d.variance[slot] = (m2 - m1 * m1).max(0.0);
+            d.charge_moments[slot] = [z2, jz2 - m1 * z2, (z4 - z2 * z2).max(0.0)];
         }
     }
 

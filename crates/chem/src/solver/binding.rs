@@ -426,7 +426,7 @@ impl Binding {
             let oh = if b.count == 1.0 {
                 inputs.oh
             } else {
-                inputs.oh.powf(b.count)
+                inputs.oh.powi(b.count as i32)
             };
             let amount = inputs.k_cond[c] * st.free[n] * oh;
             st.complex[c] = amount;
@@ -553,7 +553,69 @@ impl Binding {
 }
 
 /// Solves a·x = b in place (k×k, row-major) by Gaussian elimination with partial pivoting.
+/// `a` may be left overwritten. Systems of up to 8 unknowns (every metal count met in practice) are
+/// solved on the stack with their size known to the compiler.
 pub fn solve_linear(a: &mut [f64], b: &mut [f64], k: usize) -> bool {
+    match k {
+        1 => solve_fixed::<1>(a, b),
+        2 => solve_fixed::<2>(a, b),
+        3 => solve_fixed::<3>(a, b),
+        4 => solve_fixed::<4>(a, b),
+        5 => solve_fixed::<5>(a, b),
+        6 => solve_fixed::<6>(a, b),
+        7 => solve_fixed::<7>(a, b),
+        8 => solve_fixed::<8>(a, b),
+        _ => solve_any(a, b, k),
+    }
+}
+
+/// [`solve_linear`] for N unknowns, in arrays on the stack.
+fn solve_fixed<const N: usize>(a: &[f64], b: &mut [f64]) -> bool {
+    let mut m = [[0.0; N]; N];
+    for (row, src) in m.iter_mut().zip(a.chunks_exact(N)) {
+        row.copy_from_slice(src);
+    }
+    let mut v = [0.0; N];
+    v.copy_from_slice(&b[..N]);
+    for col in 0..N {
+        let mut pivot = col;
+        for i in col + 1..N {
+            if m[i][col].abs() > m[pivot][col].abs() {
+                pivot = i;
+            }
+        }
+        let p = m[pivot][col];
+        if p.abs() < f64::MIN_POSITIVE || !p.is_finite() {
+            return false;
+        }
+        m.swap(col, pivot);
+        v.swap(col, pivot);
+        let inv = 1.0 / p;
+        let (upper, lower) = m.split_at_mut(col + 1);
+        let pivot_row = &upper[col];
+        let v_col = v[col];
+        for (row, vi) in lower.iter_mut().zip(&mut v[col + 1..]) {
+            let factor = row[col] * inv;
+            for (x, y) in row[col..].iter_mut().zip(&pivot_row[col..]) {
+                *x -= factor * y;
+            }
+            *vi -= factor * v_col;
+        }
+    }
+    for col in (0..N).rev() {
+        let row = &m[col];
+        let mut x = v[col];
+        for (r, y) in row[col + 1..].iter().zip(&v[col + 1..]) {
+            x -= r * y;
+        }
+        v[col] = x / row[col];
+    }
+    b[..N].copy_from_slice(&v);
+    v.iter().all(|x| x.is_finite())
+}
+
+/// [`solve_linear`] for any size, in place.
+fn solve_any(a: &mut [f64], b: &mut [f64], k: usize) -> bool {
     let (a, b) = (&mut a[..k * k], &mut b[..k]);
     for col in 0..k {
         let mut pivot = col;
@@ -596,4 +658,54 @@ pub fn solve_linear(a: &mut [f64], b: &mut [f64], k: usize) -> bool {
         b[col] = v / row[col];
     }
     b.iter().all(|v| v.is_finite())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A diagonally dominant test matrix of size k with a known solution x_i = i + 1.
+    fn system(k: usize) -> (Vec<f64>, Vec<f64>, Vec<f64>) {
+        let x: Vec<f64> = (0..k).map(|i| i as f64 + 1.0).collect();
+        let mut a = vec![0.0; k * k];
+        for i in 0..k {
+            for j in 0..k {
+                // Off-diagonal entries from a fixed pattern; row 0 starts small so that
+                // pivoting has to swap rows.
+                a[i * k + j] = if i == j {
+                    if i == 0 { 1e-3 } else { 10.0 + i as f64 }
+                } else {
+                    ((i * 7 + j * 3) % 5) as f64 - 2.0
+                };
+            }
+        }
+        let b = (0..k)
+            .map(|i| (0..k).map(|j| a[i * k + j] * x[j]).sum())
+            .collect();
+        (a, b, x)
+    }
+
+    #[test]
+    fn every_size_solves_to_the_known_solution_alike() {
+        for k in 1..=10 {
+            let (a, b, x) = system(k);
+            let (mut a1, mut b1) = (a.clone(), b.clone());
+            assert!(solve_linear(&mut a1, &mut b1, k), "size {k}");
+            let (mut a2, mut b2) = (a.clone(), b.clone());
+            assert!(solve_any(&mut a2, &mut b2, k), "size {k}");
+            for i in 0..k {
+                assert!((b1[i] - x[i]).abs() < 1e-9, "size {k}: {b1:?}");
+                assert!((b1[i] - b2[i]).abs() < 1e-12, "size {k}");
+            }
+        }
+    }
+
+    #[test]
+    fn a_singular_system_is_refused() {
+        for k in 1..=10 {
+            let mut a = vec![0.0; k * k];
+            let mut b = vec![1.0; k];
+            assert!(!solve_linear(&mut a, &mut b, k), "size {k}");
+        }
+    }
 }
