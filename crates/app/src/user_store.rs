@@ -9,13 +9,9 @@ use std::path::{Path, PathBuf};
 
 use saltwise_chem::Library;
 use saltwise_chem::library::LibraryData;
-use saltwise_chem::project::write_atomic;
 use saltwise_chem::user_library::{Provenance, USER_LIBRARY_FILE, UserLibrary};
 
 use crate::recovery::DATA_DIR_ENV;
-
-/// Largest user library file read, bytes.
-const MAX_BYTES: u64 = 4 * 1024 * 1024;
 
 /// Where the user library file is, if anywhere.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -52,20 +48,10 @@ impl UserStore {
 
     /// The library as saved: empty when there is no file yet, or why it cannot be read.
     pub fn read(&self) -> Result<UserLibrary, String> {
-        let Some(path) = self.path.as_deref().filter(|p| p.exists()) else {
-            return Ok(UserLibrary::default());
-        };
-        let size = std::fs::metadata(path)
-            .map_err(|e| format!("{}: {e}", path.display()))?
-            .len();
-        if size > MAX_BYTES {
-            return Err(format!(
-                "{} is {size} bytes; a user library is at most {MAX_BYTES} bytes",
-                path.display()
-            ));
+        match self.path.as_deref() {
+            Some(path) => UserLibrary::read_file(path).map_err(|e| e.to_string()),
+            None => Ok(UserLibrary::default()),
         }
-        let text = std::fs::read_to_string(path).map_err(|e| format!("{}: {e}", path.display()))?;
-        UserLibrary::from_ron(&text, &path.display().to_string()).map_err(|e| e.to_string())
     }
 
     /// Adds an entry over `base` and writes the file; returns the library as it is now.
@@ -79,17 +65,6 @@ impl UserStore {
             .path
             .as_deref()
             .ok_or("no data folder is known for this user; set SALTWISE_DATA_DIR to a folder")?;
-        let mut user = self.read()?;
-        user.add(base, entry, provenance)
-            .map_err(|e| e.to_string())?;
-        let text = user
-            .to_ron()
-            .map_err(|e| format!("writing the user library as text: {e}"))?;
-        if let Some(dir) = path.parent() {
-            std::fs::create_dir_all(dir).map_err(|e| format!("{}: {e}", dir.display()))?;
-        }
-        write_atomic(path, text.as_bytes(), true)
-            .map_err(|e| format!("{}: {e}", path.display()))?;
-        Ok(user)
+        UserLibrary::add_to_file(path, base, entry, provenance).map_err(|e| e.to_string())
     }
 }

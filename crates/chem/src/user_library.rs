@@ -1,8 +1,11 @@
 //! The user's own library: systems and ingredients fitted to measured titrations, each with its
 //! provenance (data file, date, the fitted values), kept as RON text beside the built-in library.
 //!
-//! Pure: text in and out. Where the file lives (the OS data folder) and reading and writing it
-//! are the front ends' (the command line's `fit --save-to-library`).
+//! Reading the file and adding to it atomically (the previous copy kept) are here, so that the
+//! window and the command line share one tested path, as they do for project files; where the
+//! file lives (the OS data folder) is the front ends'.
+
+use std::path::Path;
 
 use serde::{Deserialize, Serialize};
 use thiserror::Error;
@@ -16,6 +19,8 @@ use crate::limits;
 pub const USER_LIBRARY_VERSION: u32 = 1;
 /// The file name of the user library inside the data folder.
 pub const USER_LIBRARY_FILE: &str = "user-library.ron";
+/// Largest user library file read, bytes.
+pub const MAX_USER_LIBRARY_BYTES: u64 = 4 * 1024 * 1024;
 
 /// Where a saved entry came from.
 #[derive(Debug, Clone, Default, PartialEq, Serialize, Deserialize)]
@@ -90,6 +95,22 @@ pub enum UserLibraryError {
     /// Nothing in the fit to save, or more than one thing.
     #[error("{0}")]
     Nothing(String),
+    /// The file could not be read or written, or is too large.
+    #[error("{path}: {message}")]
+    File {
+        /// The file.
+        path: String,
+        /// What went wrong.
+        message: String,
+    },
+}
+
+/// A file error naming the file.
+fn file_error(path: &Path, message: impl std::fmt::Display) -> UserLibraryError {
+    UserLibraryError::File {
+        path: path.display().to_string(),
+        message: message.to_string(),
+    }
 }
 
 impl UserLibrary {
@@ -108,6 +129,45 @@ impl UserLibrary {
             });
         }
         Ok(lib)
+    }
+
+    /// The user library saved at `path`: empty when there is no file yet.
+    pub fn read_file(path: &Path) -> Result<Self, UserLibraryError> {
+        if !path.exists() {
+            return Ok(Self::default());
+        }
+        let size = std::fs::metadata(path)
+            .map_err(|e| file_error(path, e))?
+            .len();
+        if size > MAX_USER_LIBRARY_BYTES {
+            return Err(file_error(
+                path,
+                format!("{size} bytes; a user library is at most {MAX_USER_LIBRARY_BYTES} bytes"),
+            ));
+        }
+        let text = std::fs::read_to_string(path).map_err(|e| file_error(path, e))?;
+        Self::from_ron(&text, &path.display().to_string())
+    }
+
+    /// Adds an entry over `base` to the file at `path` (its folder made when missing; written
+    /// atomically, the previous copy kept as `.bak`); returns the library as saved.
+    pub fn add_to_file(
+        path: &Path,
+        base: &Library,
+        entry: LibraryData,
+        provenance: Provenance,
+    ) -> Result<Self, UserLibraryError> {
+        let mut user = Self::read_file(path)?;
+        user.add(base, entry, provenance)?;
+        let text = user
+            .to_ron()
+            .map_err(|e| file_error(path, format!("writing the user library as text: {e}")))?;
+        if let Some(dir) = path.parent() {
+            std::fs::create_dir_all(dir).map_err(|e| file_error(dir, e))?;
+        }
+        crate::project::write_atomic(path, text.as_bytes(), true)
+            .map_err(|e| file_error(path, e))?;
+        Ok(user)
     }
 
     /// Pretty RON text.

@@ -5,7 +5,9 @@
 use saltwise_chem::fit::{self, FitError, Unknown};
 use saltwise_chem::measured::{MeasuredPoint, MeasuredTitration};
 use saltwise_chem::qc::QcError;
-use saltwise_chem::user_library::{Provenance, UserLibrary, fitted_entry};
+use saltwise_chem::user_library::{
+    MAX_USER_LIBRARY_BYTES, Provenance, USER_LIBRARY_FILE, UserLibrary, fitted_entry,
+};
 use saltwise_chem::{Conditions, Library, Recipe};
 
 fn lib() -> Library {
@@ -406,6 +408,66 @@ fn fitted_unknown_acid_and_assay_saved_to_the_user_library() {
     let f = fit::fit(&l, Conditions::default(), &degreaser(), &t, &unknowns).expect("fit");
     let entry = fitted_entry(&l, &f, "lye_lot_9", None, "x").expect("entry");
     assert!((entry.ingredients[0].assay - 0.47).abs() < 0.005);
+}
+
+#[test]
+fn the_user_library_file_is_read_added_to_atomically_and_a_bad_one_never_overwritten() {
+    let l = lib();
+    let dir = tempfile::tempdir().expect("temp dir");
+    let path = dir.path().join("data").join(USER_LIBRARY_FILE);
+    // No file yet: an empty library.
+    assert_eq!(
+        UserLibrary::read_file(&path).expect("no file"),
+        UserLibrary::default()
+    );
+    let unknowns = [Unknown::Assay("sodium_hydroxide_50".into())];
+    let t = synthetic(
+        &degreaser(),
+        titration("hcl", 0.1, 10.0, &volumes(32.0, 1.0)),
+        &unknowns,
+        &[47.0],
+        2,
+    );
+    let f = fit::fit(&l, Conditions::default(), &degreaser(), &t, &unknowns).expect("fit");
+    let prov = |id: &str| Provenance {
+        id: id.into(),
+        data_file: "lye.csv".into(),
+        date: "2026-12-04".into(),
+        ..Provenance::default()
+    };
+    let entry = fitted_entry(&l, &f, "lye_lot_9", None, "x").expect("entry");
+    // The first save makes the folder and the file.
+    let saved = UserLibrary::add_to_file(&path, &l, entry, prov("lye_lot_9")).expect("saved");
+    assert_eq!(UserLibrary::read_file(&path).expect("read back"), saved);
+    // The second keeps the previous copy beside it.
+    let entry = fitted_entry(&l, &f, "lye_lot_10", None, "x").expect("entry");
+    UserLibrary::add_to_file(&path, &l, entry, prov("lye_lot_10")).expect("saved");
+    let backup = path.with_extension("ron.bak");
+    let previous = std::fs::read_to_string(&backup).expect("backup kept");
+    assert_eq!(
+        UserLibrary::from_ron(&previous, "backup").expect("parse"),
+        saved
+    );
+    // A taken id is refused and the file is left as it was.
+    let before = std::fs::read(&path).expect("file");
+    let entry = fitted_entry(&l, &f, "lye_lot_9", None, "x").expect("entry");
+    assert!(UserLibrary::add_to_file(&path, &l, entry, prov("lye_lot_9")).is_err());
+    assert_eq!(std::fs::read(&path).expect("file"), before);
+    // A broken file is an error naming it, and adding to it does not overwrite it.
+    std::fs::write(&path, "(not a user library").expect("write");
+    let e = UserLibrary::read_file(&path).expect_err("broken");
+    assert!(e.to_string().contains(USER_LIBRARY_FILE), "{e}");
+    let entry = fitted_entry(&l, &f, "lye_lot_11", None, "x").expect("entry");
+    assert!(UserLibrary::add_to_file(&path, &l, entry, prov("lye_lot_11")).is_err());
+    assert_eq!(
+        std::fs::read_to_string(&path).expect("file"),
+        "(not a user library"
+    );
+    // An oversized one is refused before it is read.
+    let big = vec![b' '; usize::try_from(MAX_USER_LIBRARY_BYTES).expect("fits") + 1];
+    std::fs::write(&path, big).expect("write");
+    let e = UserLibrary::read_file(&path).expect_err("too large");
+    assert!(e.to_string().contains("at most"), "{e}");
 }
 
 /// The worked titration curve of a textbook: 50.00 mL of 0.02000 M MES (pKa 6.27) titrated with

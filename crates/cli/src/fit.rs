@@ -86,7 +86,7 @@ pub fn run(args: &FitArgs) -> Result<ExitCode> {
         .data
         .file_name()
         .map_or_else(|| data_name.clone(), |n| n.to_string_lossy().into_owned());
-    let date = user_lib::today();
+    let date = crate::report::today();
     let titration = MeasuredTitration {
         name: file_name.clone(),
         titrant: args.titrant.clone(),

@@ -61,8 +61,8 @@ pub fn batch_size(text: &str) -> Result<BatchSize> {
     })
 }
 
-/// Today's date (UTC) as YYYY-MM-DD, from the system clock.
-fn today() -> String {
+/// Today's date (UTC) as YYYY-MM-DD, from the system clock (the batch sheet's and a saved fit's).
+pub(crate) fn today() -> String {
     let secs = SystemTime::now()
         .duration_since(UNIX_EPOCH)
         .map_or(0, |d| d.as_secs());

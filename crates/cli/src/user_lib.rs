@@ -6,17 +6,13 @@
 
 use std::path::PathBuf;
 
-use anyhow::{Context, Result, anyhow, bail};
+use anyhow::{Context, Result, anyhow};
 use saltwise_chem::Library;
 use saltwise_chem::library::LibraryData;
-use saltwise_chem::project::write_atomic;
 use saltwise_chem::user_library::{Provenance, USER_LIBRARY_FILE, UserLibrary};
 
 /// Environment variable that overrides the data folder (tests, portable installs).
 pub const DATA_DIR_ENV: &str = "SALTWISE_DATA_DIR";
-
-/// Largest user library file read, bytes.
-const MAX_BYTES: u64 = 4 * 1024 * 1024;
 
 /// The data folder.
 pub fn data_dir() -> Result<PathBuf> {
@@ -38,21 +34,7 @@ pub fn path() -> Result<PathBuf> {
 /// The user library as saved, or an empty one when there is no file yet.
 pub fn read() -> Result<(PathBuf, UserLibrary)> {
     let path = path()?;
-    if !path.exists() {
-        return Ok((path, UserLibrary::default()));
-    }
-    let size = std::fs::metadata(&path)
-        .with_context(|| format!("reading {}", path.display()))?
-        .len();
-    if size > MAX_BYTES {
-        bail!(
-            "{} is {size} bytes; a user library is at most {MAX_BYTES} bytes",
-            path.display()
-        );
-    }
-    let text =
-        std::fs::read_to_string(&path).with_context(|| format!("reading {}", path.display()))?;
-    let lib = UserLibrary::from_ron(&text, &path.display().to_string())?;
+    let lib = UserLibrary::read_file(&path)?;
     Ok((path, lib))
 }
 
@@ -68,21 +50,7 @@ pub fn extend(library: Library) -> Result<Library> {
 
 /// Adds an entry to the user library file; returns the file.
 pub fn save(base: &Library, entry: LibraryData, provenance: Provenance) -> Result<PathBuf> {
-    let (path, mut user) = read()?;
-    user.add(base, entry, provenance)?;
-    let text = user.to_ron().context("writing the user library as text")?;
-    if let Some(dir) = path.parent() {
-        std::fs::create_dir_all(dir).with_context(|| format!("creating {}", dir.display()))?;
-    }
-    write_atomic(&path, text.as_bytes(), true)
-        .with_context(|| format!("writing {}", path.display()))?;
+    let path = path()?;
+    UserLibrary::add_to_file(&path, base, entry, provenance)?;
     Ok(path)
-}
-
-/// Today's date (UTC) as `YYYY-MM-DD`, from the system clock.
-pub fn today() -> String {
-    let secs = std::time::SystemTime::now()
-        .duration_since(std::time::UNIX_EPOCH)
-        .map_or(0, |d| d.as_secs());
-    saltwise_export::sheet::iso_date(secs)
 }
