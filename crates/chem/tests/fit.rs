@@ -397,6 +397,13 @@ fn fitted_unknown_acid_and_assay_saved_to_the_user_library() {
     assert!((s.pka[0] - 4.76).abs() < 0.1);
 
     // The assay of a fitted lye, copied with the fitted assay.
+    let f = fitted_lye(&l);
+    let entry = fitted_entry(&l, &f, "lye_lot_9", None, "x").expect("entry");
+    assert!((entry.ingredients[0].assay - 0.47).abs() < 0.005);
+}
+
+/// The degreaser's lye assay fitted to a synthetic HCl titration made at 47 %.
+fn fitted_lye(l: &Library) -> fit::Fit {
     let unknowns = [Unknown::Assay("sodium_hydroxide_50".into())];
     let t = synthetic(
         &degreaser(),
@@ -405,9 +412,7 @@ fn fitted_unknown_acid_and_assay_saved_to_the_user_library() {
         &[47.0],
         2,
     );
-    let f = fit::fit(&l, Conditions::default(), &degreaser(), &t, &unknowns).expect("fit");
-    let entry = fitted_entry(&l, &f, "lye_lot_9", None, "x").expect("entry");
-    assert!((entry.ingredients[0].assay - 0.47).abs() < 0.005);
+    fit::fit(l, Conditions::default(), &degreaser(), &t, &unknowns).expect("fit")
 }
 
 #[test]
@@ -420,15 +425,7 @@ fn the_user_library_file_is_read_added_to_atomically_and_a_bad_one_never_overwri
         UserLibrary::read_file(&path).expect("no file"),
         UserLibrary::default()
     );
-    let unknowns = [Unknown::Assay("sodium_hydroxide_50".into())];
-    let t = synthetic(
-        &degreaser(),
-        titration("hcl", 0.1, 10.0, &volumes(32.0, 1.0)),
-        &unknowns,
-        &[47.0],
-        2,
-    );
-    let f = fit::fit(&l, Conditions::default(), &degreaser(), &t, &unknowns).expect("fit");
+    let f = fitted_lye(&l);
     let prov = |id: &str| Provenance {
         id: id.into(),
         data_file: "lye.csv".into(),
