@@ -140,7 +140,7 @@ fn aluminium_and_iron_hydrolysis_give_back_the_published_constants() {
         &[
             ("iron_iii_hydroxo", 1.0, -2.19),
             ("iron_iii_dihydroxo", 2.0, -5.67),
-            ("ferrate_iii", 4.0, -21.6),
+            ("iron_iii_tetrahydroxo", 4.0, -21.6),
         ],
     );
     // With *β1 = 10^−2.19 and 1 mmol/kg, a weak acid stronger than its own concentration; by
