@@ -138,6 +138,15 @@ fn settling_lists_the_calcite_formed_and_the_ph_left() {
     );
 }
 
+/// Chooses what the species panel shows, as a person does: open the list, click the entry.
+fn choose_species(h: &mut egui_kittest::Harness<'_, saltwise::Workbench>, entry: &str) {
+    h.get_by_label("Species system").click();
+    h.run();
+    h.get_by_role_and_label(egui::accesskit::Role::Button, entry)
+        .click();
+    h.run();
+}
+
 /// An invented dish liquid base: calcium chloride and tetrasodium EDTA in water.
 fn chelated_base() -> Project {
     let mut p = Project::with_recipe(Recipe::in_grams(&[
@@ -153,14 +162,7 @@ fn chelated_base() -> Project {
 fn the_species_panel_charts_where_calcium_is_against_ph() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness_in(chelated_base(), &Folders::under(dir.path()));
-    h.get_by_label("Species system").click();
-    h.run();
-    h.get_by_role_and_label(
-        egui::accesskit::Role::Button,
-        "calcium (Ca²⁺): free, bound, settled",
-    )
-    .click();
-    h.run();
+    choose_species(&mut h, "calcium (Ca²⁺): free, bound, settled");
     assert_eq!(
         h.state().project().settings.species_system.as_deref(),
         Some("calcium")
@@ -194,14 +196,7 @@ fn zinc_rinse() -> Project {
 fn the_species_panel_charts_zinc_free_and_as_hydroxo_complexes() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness_in(zinc_rinse(), &Folders::under(dir.path()));
-    h.get_by_label("Species system").click();
-    h.run();
-    h.get_by_role_and_label(
-        egui::accesskit::Role::Button,
-        "zinc (Zn²⁺): free, bound, settled",
-    )
-    .click();
-    h.run();
+    choose_species(&mut h, "zinc (Zn²⁺): free, bound, settled");
     let d = h.state().engine().metal().expect("a metal chart").clone();
     assert_eq!(d.metal, "zinc");
     assert!(h.query_all_by_label_contains("free Zn²⁺").count() >= 1);

@@ -42,6 +42,12 @@ fn weighed(lib: &Library, report: &Report, metal: &str) -> f64 {
         .map_or(0.0, |&(_, m)| m)
 }
 
+/// log10 of [ML]/([M][L]) at the solved state (molal; in an ideal solution the constant at I = 0).
+fn formation_log_k(report: &Report, complex_id: &str, metal: &str, ligand: &str) -> f64 {
+    let free = |id: &str| report.speciation.free(id);
+    (complex(report, complex_id) / (free(metal) * free(ligand))).log10()
+}
+
 /// Total dissolved metal: free ion and every complex it is in.
 fn metal_total(report: &Report, metal: &str) -> f64 {
     report.speciation.free(metal)
@@ -293,15 +299,7 @@ fn aluminium_citrate_forms_with_its_measured_constant_brought_to_zero_ionic_stre
         ],
         ActivityModel::Ideal,
     );
-    let citrate = r
-        .speciation
-        .ions
-        .iter()
-        .find(|i| i.id == "citric/3")
-        .map(|i| i.molality)
-        .expect("free citrate³⁻");
-    let log_k =
-        (complex(&r, "aluminium_citrate") / (r.speciation.free("aluminium") * citrate)).log10();
+    let log_k = formation_log_k(&r, "aluminium_citrate", "aluminium", "citric/3");
     // log K 8.35 at I = 0.1 (the study's abstract, in the library), to I = 0 by Davies at
     // 25 °C, computed here by hand: A = 0.5091 (Robinson & Stokes, from memory),
     // f(0.1) = √0.1/(1 + √0.1) − 0.03 = 0.21025, Δz² = 9 + 9 − 0: 8.35 + 0.5091 × 0.21025 × 18
@@ -331,15 +329,12 @@ fn iron_sulfate_pairs_with_its_tabulated_constant_brought_to_zero_ionic_strength
         ],
         ActivityModel::Ideal,
     );
-    let sulfate = r
-        .speciation
-        .ions
-        .iter()
-        .find(|i| i.id == "hydrogen_sulfate/1")
-        .map(|i| i.molality)
-        .expect("free sulfate");
-    let log_k =
-        (complex(&r, "iron_iii_sulfate_pair") / (r.speciation.free("iron_iii") * sulfate)).log10();
+    let log_k = formation_log_k(
+        &r,
+        "iron_iii_sulfate_pair",
+        "iron_iii",
+        "hydrogen_sulfate/1",
+    );
     // log β 2.3 at 25 °C and I = 0.1 (Table 3 of the review PMC10943352, read), to I = 0 by
     // Davies by hand: Δz² = 9 + 4 − 1 = 12, 2.3 + 0.5091 × 0.21025 × 12 = 3.584 (A and f(0.1)
     // as in the citrate check above).
