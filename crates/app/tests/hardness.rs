@@ -182,7 +182,7 @@ fn the_species_panel_charts_where_calcium_is_against_ph() {
     assert!(at_ten.1[edta] > 0.99);
 }
 
-/// An invented zinc mouth-rinse base: zinc sulfate in water, a little alkali.
+/// An invented zinc mouth-rinse base: zinc sulfate in water.
 fn zinc_rinse() -> Project {
     let mut p = Project::with_recipe(Recipe::in_grams(&[
         ("water", 1000.0),
